@@ -12,6 +12,7 @@ import numpy as np
 #: constant growth velocity u.  Continuous nucleation: K = (pi/3) I u^3, n = 4;
 #: site saturation: K = (4 pi/3) N u^3, n = 3 (Avrami, J. Chem. Phys. 7 (1939) 1103;
 #: 8 (1940) 212; 9 (1941) 177; Johnson and Mehl, Trans. AIME 135 (1939) 416).
+GROWTH_DIMENSIONS = 3
 MODES = {
     "continuous": (4.0, np.log(np.pi / 3.0)),
     "site-saturation": (3.0, np.log(4.0 * np.pi / 3.0)),
@@ -38,13 +39,12 @@ def log_rate_constant(mode, log_source, growth_velocity_m_s):
 
     Examples
     --------
-    >>> n = MODES["continuous"][0]
     >>> round(float(np.exp(log_rate_constant("continuous", 0.0, 1.0))), 6)  # pi/3
     1.047198
     """
-    n, log_geometry = MODES[mode]
+    _, log_geometry = MODES[mode]
     with np.errstate(divide="ignore"):
-        return log_geometry + log_source + (n - 1.0) * np.log(growth_velocity_m_s)
+        return log_geometry + log_source + GROWTH_DIMENSIONS * np.log(growth_velocity_m_s)
 
 
 def fraction(t_s, log_K, n, incubation_s=0.0):
