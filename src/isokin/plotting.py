@@ -49,7 +49,6 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
     shown_times = []
     for i, product in enumerate(diagram.products):
         colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
-        marker = PRODUCT_MARKERS[i % len(PRODUCT_MARKERS)]
         ok = diagram.practical(product.name)
         for k, x in enumerate(diagram.fractions):
             if not ok[k].any():
@@ -58,18 +57,18 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
             shown_times.append(times[ok[k]])
             style = FRACTION_STYLES.get(round(float(x), 6), OTHER_FRACTION_STYLE)
             ax.plot(times, t_c, color=colour, linestyle=style, linewidth=1.6, label=f"{product.name} {x * 100:g} %")
-        _mark_noses(ax, [n for n in diagram.noses if n.product == product.name], colour, marker,
-                    0.035 * (t_c[-1] - t_c[0]))
     if not shown_times:
         ax.text(0.5, 0.5, "no product forms within the practical horizon in this range",
                 transform=ax.transAxes, ha="center")
         lo, hi = 1e-1, 1e3
     else:
         every = np.concatenate(shown_times)
-        lo, hi = every.min() / 200.0, min(every.max() * 4.0, PRACTICAL_HORIZON_S)
+        lo, hi = every.min() / 400.0, min(every.max() * 4.0, PRACTICAL_HORIZON_S)
     ax.set_xscale("log")
     ax.set_xlim(lo, hi)
     ax.set_ylim(t_c[0] - 0.03 * (t_c[-1] - t_c[0]), max(t_c[-1], *_line_c(alloy)) + 0.06 * (t_c[-1] - t_c[0]))
+    if shown_times:
+        _mark_noses(ax, diagram, every.min() / 1.8, 0.026 * (t_c[-1] - t_c[0]))
     for t_s in TIME_MARKS_S.values():
         if lo < t_s < hi:
             ax.axvline(t_s, color="#c8c8c8", linewidth=0.7, zorder=0)
@@ -77,16 +76,16 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
     top = ax.secondary_xaxis("top")
     top.set_xticks(list(marks.values()), list(marks.keys()), fontsize=8, color="#555555")
     top.tick_params(which="minor", top=False)
-    x_text = lo * 1.15
     for name, t_k in alloy.lines_K.items():
         y = float(kelvin_to_celsius(t_k))
         ax.axhline(y, **LINE_STYLE, zorder=1)
-        ax.text(x_text, y, f"{name} {y:.0f} °C", va="bottom", ha="left", fontsize=7.5, color="#333333")
+        ax.text(0.995, y, f"{name} {y:.0f} °C", transform=ax.get_yaxis_transform(), va="bottom", ha="right",
+                fontsize=7.5, color="#333333")
     ax.set_xlabel("hold time, s (log scale)")
     ax.set_ylabel("hold temperature, °C")
     ax.set_title(f"Isothermal transformation: {alloy.name}", fontsize=11, loc="left")
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
-    ax.legend(loc="upper right", fontsize=7.5, frameon=True, framealpha=0.92, ncols=1 if len(diagram.products) < 2 else 2)
+    ax.legend(loc="best", fontsize=7.5, frameon=True, framealpha=0.92, ncols=1 if len(diagram.products) < 2 else 2)
     footer = " · ".join(s for s in (alloy.footer, footer_extra) if s)
     fig.text(0.01, 0.005, f"{footer}\n{CAUTION} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
@@ -94,20 +93,60 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
     return fig
 
 
-def _mark_noses(ax, noses, colour, marker, spacing_C):
-    """Mark each nose; the labels stack in the empty region left of the earliest curve."""
-    shown = [n for n in noses if n.inside and n.time_s <= PRACTICAL_HORIZON_S]
-    if not shown:
+def _nose_labels(diagram: Diagram):
+    """One label per product nose: (product index, temperature °C, text, [noses])."""
+    labels = []
+    for i, product in enumerate(diagram.products):
+        noses = [n for n in diagram.noses
+                 if n.product == product.name and n.inside and n.time_s <= PRACTICAL_HORIZON_S]
+        if not noses:
+            continue
+        temps = [n.temperature_C for n in noses]
+        if max(temps) - min(temps) < 1.0:  # the fractions share one nose temperature
+            times = "\n".join(f"{n.fraction * 100:g} %: {_format_time(n.time_s)}" for n in noses)
+            labels.append((i, float(np.mean(temps)), f"{product.name} nose {np.mean(temps):.0f} °C\n{times}", noses))
+        else:
+            labels += [(i, n.temperature_C, f"{product.name} {n.fraction * 100:g} % nose\n"
+                        f"{n.temperature_C:.0f} °C, {_format_time(n.time_s)}", [n]) for n in noses]
+    return labels
+
+
+def _spread(positions, gap):
+    """Move sorted label positions apart to at least ``gap``, keeping their mean."""
+    order = np.argsort(positions)
+    y = np.asarray(positions, dtype=float)[order]
+    for _ in range(50):
+        moved = False
+        for k in range(1, y.size):
+            overlap = gap - (y[k] - y[k - 1])
+            if overlap > 1e-9:
+                y[k - 1] -= overlap / 2
+                y[k] += overlap / 2
+                moved = True
+        if not moved:
+            break
+    out = np.empty_like(y)
+    out[order] = y
+    return out
+
+
+def _mark_noses(ax, diagram: Diagram, x_label, line_C):
+    """Mark every nose; labels stack in the empty region left of the earliest curve."""
+    labels = _nose_labels(diagram)
+    if not labels:
         return
-    x_label = min(n.time_s for n in shown) / 1.8
-    middle = (len(shown) - 1) / 2.0
-    for k, nose in enumerate(shown):
-        ax.plot(nose.time_s, nose.temperature_C, marker=marker, color=colour, markersize=6.5,
-                markerfacecolor="white", markeredgewidth=1.4, zorder=5)
+    heights = [line_C * (lab[2].count("\n") + 1.4) for lab in labels]
+    ys = _spread([lab[1] for lab in labels], max(heights))
+    for (i, _, text, noses), y in zip(labels, ys):
+        colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
+        marker = PRODUCT_MARKERS[i % len(PRODUCT_MARKERS)]
+        for nose in noses:
+            ax.plot(nose.time_s, nose.temperature_C, marker=marker, color=colour, markersize=6.5,
+                    markerfacecolor="white", markeredgewidth=1.4, zorder=5)
+        first = min(noses, key=lambda n: n.time_s)
         ax.annotate(
-            f"{nose.fraction * 100:g} % nose {nose.temperature_C:.0f} °C, {_format_time(nose.time_s)}",
-            (nose.time_s, nose.temperature_C), xytext=(x_label, nose.temperature_C + (middle - k) * spacing_C),
-            fontsize=7.5, color=colour, ha="right", va="center",
+            text, (first.time_s, first.temperature_C), xytext=(x_label, y), fontsize=7, color=colour, linespacing=1.15,
+            ha="right", va="center",
             bbox={"boxstyle": "square,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85},
             arrowprops={"arrowstyle": "-", "color": colour, "linewidth": 0.6, "shrinkA": 0, "shrinkB": 4},
         )

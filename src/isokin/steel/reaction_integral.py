@@ -1,0 +1,163 @@
+"""The sigmoidal reaction term S(X) of Li et al. (1998) and its derivative.
+
+Li, Niebuhr, Meekisho and Atteridge write the isothermal time to reach a transformed
+fraction X as a temperature-and-composition factor times
+
+    S(X) = integral from 0 to X of dx / (x**(0.4 (1 - x)) * (1 - x)**(0.4 x)),
+
+an integral with no closed form and with integrable singularities at both ends (the
+integrand behaves as x**-0.4 near 0 and as (1 - x)**-0.4 near 1).
+
+The integrand is symmetric, f(1 - x) = f(x), so S(X) = 2 S(1/2) - S(1 - X) and only
+S(Y) with Y <= 1/2 is ever integrated numerically; there the only singular end is the
+lower limit. That piece uses a fixed tanh-sinh (double-exponential) rule, which keeps
+exponential convergence for algebraic and logarithmic end singularities, so 73 fixed
+nodes give close to machine precision without any adaptive step.
+
+Reference: M. V. Li, D. V. Niebuhr, L. L. Meekisho and D. G. Atteridge, "A computational
+model for the prediction of steel hardenability", Metall. Mater. Trans. B 29 (1998)
+661-672.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy.special import expit
+
+# Step and half-width of the tanh-sinh rule in its own variable t. Near x = 0 the mapped
+# integrand decays like exp(0.6 * pi * sinh t), which is below 1e-17 of the total
+# already at |t| = 3.8; 4.5 leaves margin. The mapped integrand is analytic in a wide
+# strip around the real t axis, so a step of 1/8 (73 nodes) already reaches ~1e-15;
+# the tests hold it to 1e-12 against mpmath.
+_STEP = 1.0 / 8.0
+_HALF_WIDTH = 4.5
+_EXPONENT = 0.4
+
+
+def _tanh_sinh_rule() -> tuple[np.ndarray, np.ndarray]:
+    """Nodes u in (0, 1) and weights of the tanh-sinh rule for integrals over (0, 1)."""
+    t = np.arange(-_HALF_WIDTH, _HALF_WIDTH + 0.5 * _STEP, _STEP)
+    s = np.pi * np.sinh(t)
+    # u = 1 / (1 + exp(-s)); expit keeps full relative precision of u near 0, where the
+    # singular factor x**-0.4 is evaluated, and of 1 - u = expit(-s) in the weights.
+    u = expit(s)
+    weights = _STEP * np.pi * np.cosh(t) * u * expit(-s)
+    keep = weights > 0.0
+    return u[keep], weights[keep]
+
+
+_NODES, _WEIGHTS = _tanh_sinh_rule()
+
+
+def _log_integrand(x, one_minus_x):
+    return -_EXPONENT * (one_minus_x * np.log(x) + x * np.log(one_minus_x))
+
+
+def _lower_half(y: np.ndarray) -> np.ndarray:
+    """S(y) for 0 <= y <= 1/2 (any shape), by the fixed rule after x = y u."""
+    y = y[..., np.newaxis]
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        x = y * _NODES
+        # x <= 1/2 here, so 1 - x loses no precision to cancellation.
+        values = np.exp(_log_integrand(x, 1.0 - x))
+    return y[..., 0] * np.sum(np.where(x > 0.0, values, 0.0) * _WEIGHTS, axis=-1)
+
+
+_HALF = float(_lower_half(np.array(0.5)))
+
+
+def reaction_integral(X):
+    """Li et al. (1998) reaction term S(X), dimensionless.
+
+    .. math:: S(X) = \\int_0^X \\frac{dx}{x^{0.4(1-x)}\\,(1-x)^{0.4x}}
+
+    Parameters
+    ----------
+    X : float or array_like
+        Transformed fraction of the product, 0 <= X <= 1 (dimensionless).
+
+    Returns
+    -------
+    ndarray or float
+        S(X), same shape as ``X``; S(0) = 0 and S(1) = 2 S(1/2) ~ 2.44 is finite.
+
+    Raises
+    ------
+    ValueError
+        If any X lies outside [0, 1] or is not a number.
+
+    Notes
+    -----
+    Symmetry f(1 - x) = f(x) of the integrand gives S(X) = 2 S(1/2) - S(1 - X); the part
+    with upper limit <= 1/2 uses a fixed tanh-sinh rule of 73 nodes, so the
+    cost is one vectorised pass whatever X is. Accurate to better than 1e-12 relative
+    against mpmath.quad over the whole range. Distinct values of X are integrated once,
+    so a diagram that asks for three fractions on a large grid stays cheap.
+
+    Reference: Li, Niebuhr, Meekisho and Atteridge, Metall. Mater. Trans. B 29 (1998)
+    661-672.
+
+    Examples
+    --------
+    >>> round(float(reaction_integral(0.5)), 10) == round(float(reaction_integral(1.0)) / 2, 10)
+    True
+    >>> float(reaction_integral(0.0))
+    0.0
+    """
+    X = np.asarray(X, dtype=float)
+    if not np.all((X >= 0.0) & (X <= 1.0)):
+        raise ValueError("transformed fraction X must lie in [0, 1]")
+    distinct, inverse = np.unique(X, return_inverse=True)
+    upper = distinct > 0.5
+    lower_limit = np.where(upper, 1.0 - distinct, distinct)
+    piece = _lower_half(lower_limit)
+    values = np.where(upper, 2.0 * _HALF - piece, piece)
+    result = values[inverse].reshape(X.shape)
+    return result if result.ndim else float(result)
+
+
+def reaction_integrand(X):
+    """dS/dX = 1 / (X**(0.4 (1 - X)) * (1 - X)**(0.4 X)) of Li et al. (1998), dimensionless.
+
+    Parameters
+    ----------
+    X : float or array_like
+        Transformed fraction, 0 <= X <= 1.
+
+    Returns
+    -------
+    ndarray or float
+        The integrand of :func:`reaction_integral`; ``inf`` at X = 0 and X = 1.
+
+    Examples
+    --------
+    >>> round(float(reaction_integrand(0.5)), 12) == round(2 ** 0.4, 12)
+    True
+    """
+    with np.errstate(divide="ignore"):
+        value = 1.0 / np.asarray(reaction_rate_shape(X))
+    return value if value.ndim else float(value)
+
+
+def reaction_rate_shape(X):
+    """X**(0.4 (1 - X)) * (1 - X)**(0.4 X) = 1 / (dS/dX), dimensionless.
+
+    With t(X, T) = F(T) S(X) the rate form of Li et al. (1998) is
+    dX/dt = reaction_rate_shape(X) / F(T). It is 0 at X = 0 and at X = 1, and 0 is
+    returned outside [0, 1] too, so an integrator that overshoots stops there.
+
+    Parameters
+    ----------
+    X : float or array_like
+        Transformed fraction.
+
+    Examples
+    --------
+    >>> float(reaction_rate_shape(0.0)), float(reaction_rate_shape(1.0))
+    (0.0, 0.0)
+    """
+    X = np.asarray(X, dtype=float)
+    inside = (X > 0.0) & (X < 1.0)
+    Xs = np.where(inside, X, 0.5)
+    value = np.where(inside, np.exp(-_log_integrand(Xs, 1.0 - Xs)), 0.0)
+    return value if value.ndim else float(value)
