@@ -1,0 +1,9 @@
+import os
+
+from hypothesis import settings
+
+# CI runs the same examples every time, so a red run is reproducible; locally hypothesis
+# keeps exploring new ones.
+settings.register_profile("ci", derandomize=True, deadline=None)
+if os.environ.get("CI"):
+    settings.load_profile("ci")
