@@ -139,3 +139,12 @@ def test_console_script_runs_as_installed(tmp_path):
     bad = subprocess.run([sys.executable, "-m", "isokin", "check", str(tmp_path / "none.toml")],
                          capture_output=True, text=True, cwd=tmp_path)
     assert bad.returncode == 2 and "Traceback" not in bad.stderr and len(bad.stderr.strip().splitlines()) == 1
+
+
+@pytest.mark.parametrize("args", [["diagram", "--points", "2"], ["diagram", "--format", "gif"], ["frobnicate"],
+                                  ["diagram", "--tmin-c", "abc"]])
+def test_usage_errors_are_one_line_too(args, tmp_path):
+    proc = subprocess.run([sys.executable, "-m", "isokin", *args], capture_output=True, text=True, cwd=tmp_path)
+    assert proc.returncode == 2
+    lines = proc.stderr.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("isokin: error:") and "--help" in lines[0]

@@ -6,6 +6,7 @@ No physics here.  Bad input ends with one line on stderr and exit code 2.
 from __future__ import annotations
 
 import os
+import sys
 from enum import Enum
 from pathlib import Path
 from typing import Annotated, Optional
@@ -195,7 +196,7 @@ def check(
     for product in alloy.products:
         if hasattr(product, "nucleus"):
             _print_nuclei(product)
-    result = compute_diagram(alloy.products, temperature_grid(*alloy.default_range_K, DEFAULT_POINTS))
+    result = compute_diagram(alloy.products, _grid(alloy, None, None, None))
     _print_noses(result)
     typer.echo(CAUTION)
 
@@ -224,4 +225,14 @@ def version():
 
 
 def main():
-    app()
+    """Entry point: a usage error (unknown option, wrong type, value out of range) ends with one line too."""
+    try:
+        code = app(standalone_mode=False)
+    except Exception as exc:
+        # click-style usage errors, whichever click copy typer carries: exit code 2 and a message
+        if getattr(exc, "exit_code", None) != 2 or not hasattr(exc, "format_message"):
+            raise
+        command = exc.ctx.command_path if getattr(exc, "ctx", None) else "isokin"
+        typer.echo(f"isokin: error: {exc.format_message()} (see: {command} --help)", err=True)
+        sys.exit(2)
+    sys.exit(code if isinstance(code, int) else 0)
