@@ -66,7 +66,9 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
         lo, hi = every.min() / 400.0, min(every.max() * 4.0, PRACTICAL_HORIZON_S)
     ax.set_xscale("log")
     ax.set_xlim(lo, hi)
-    ax.set_ylim(t_c[0] - 0.03 * (t_c[-1] - t_c[0]), max(t_c[-1], *_line_c(alloy)) + 0.06 * (t_c[-1] - t_c[0]))
+    lines_c = [float(kelvin_to_celsius(t)) for t in alloy.lines_K.values()]
+    bottom, top_c = min(t_c[0], *lines_c), max(t_c[-1], *lines_c)
+    ax.set_ylim(bottom - 0.03 * (top_c - bottom), top_c + 0.06 * (top_c - bottom))
     if shown_times:
         _mark_noses(ax, diagram, every.min() / 1.8, 0.026 * (t_c[-1] - t_c[0]))
     for t_s in TIME_MARKS_S.values():
@@ -87,9 +89,12 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
     ax.legend(loc="best", fontsize=7.5, frameon=True, framealpha=0.92, ncols=1 if len(diagram.products) < 2 else 2)
     footer = " · ".join(s for s in (alloy.footer, footer_extra) if s)
+    if alloy.warnings:
+        footer += (f"\n{len(alloy.warnings)} warning(s) for this input, such as a composition outside a model's "
+                   "calibrated range: see the summary JSON.")
     fig.text(0.01, 0.005, f"{footer}\n{CAUTION} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
-    fig.get_layout_engine().set(rect=(0, 0.05, 1, 0.95))
+    fig.get_layout_engine().set(rect=(0, 0.065, 1, 0.935))
     return fig
 
 
@@ -150,10 +155,6 @@ def _mark_noses(ax, diagram: Diagram, x_label, line_C):
             bbox={"boxstyle": "square,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85},
             arrowprops={"arrowstyle": "-", "color": colour, "linewidth": 0.6, "shrinkA": 0, "shrinkB": 4},
         )
-
-
-def _line_c(alloy):
-    return [float(kelvin_to_celsius(t)) for t in alloy.lines_K.values()] or [-np.inf]
 
 
 def save_figure(fig, target):

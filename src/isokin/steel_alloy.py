@@ -24,6 +24,8 @@ GRAIN_SIZE_RANGE = (-1.0, 14.0)
 DEFAULT_GRAIN_SIZE_ASTM = 7.0
 #: The diagram's default lower end lies this far below M90, K, so the martensite lines show.
 BELOW_M90_K = 25.0
+#: ...but not below this, °C: sub-zero treatment goes no colder in common practice.
+LOWEST_DEFAULT_C = -196.0
 
 STEEL_KEYS = {
     "grain_size_astm": Key(float, required=True, low=GRAIN_SIZE_RANGE[0], high=GRAIN_SIZE_RANGE[1]),
@@ -122,7 +124,7 @@ def build_steel_model(source, name: str, mass_percent: dict, steel: dict, inputs
                 "fully austenitized steel, so the diagram does not describe this treatment"
             )
     upper = max(float(np.max(p.upper_K)) for p in products)
-    lower = max(lines["M90"] - BELOW_M90_K, celsius_to_kelvin(20.0))
+    lower = max(lines["M90"] - BELOW_M90_K, celsius_to_kelvin(LOWEST_DEFAULT_C))
     analysis = ", ".join(f"{k} {float(v):g}" for k, v in mass_percent.items() if float(v) > 0)
     footer = (f"{analysis} mass %, ASTM grain size {grain:g}"
               + (f", austenitized {steel['austenitizing_temperature_C']:g} °C" if "austenitizing_temperature_C" in steel else "")
