@@ -148,3 +148,32 @@ def test_usage_errors_are_one_line_too(args, tmp_path):
     assert proc.returncode == 2
     lines = proc.stderr.strip().splitlines()
     assert len(lines) == 1 and lines[0].startswith("isokin: error:") and "--help" in lines[0]
+
+
+def test_tabulated_driving_force_reproduces_the_linear_form(tmp_path):
+    # A dGm(T) table written from Turnbull's linear form (exact under linear interpolation)
+    # must give the same curves as the linear form itself.
+    import numpy as np
+
+    text = GOOD.replace('driving_force = "turnbull"', 'driving_force = "table"\ndriving_force_table = "dgm.csv"')
+    text = text.replace("equilibrium_temperature_C = 505.0", "").replace("latent_heat_J_mol = 10.0e3", "")
+    t_c = np.array([100.0, 505.0, 600.0])
+    dgm = np.where(t_c < 505.0, -10.0e3 * (505.0 - t_c) / (505.0 + 273.15), 0.0)
+    pd.DataFrame({"temperature_C": t_c, "dGm_J_mol": dgm}).to_csv(tmp_path / "dgm.csv", index=False)
+    path = _bad(tmp_path, text, "tabulated.toml")
+    assert run("diagram", path, "--out", tmp_path / "a", "--points", 80).exit_code == 0
+    assert run("diagram", PHYSICAL_ALLOYS[0], "--out", tmp_path / "b", "--points", 80).exit_code == 0
+    a = pd.read_csv(tmp_path / "a" / "tabulated-curves.csv")
+    b = pd.read_csv(tmp_path / "b" / f"{PHYSICAL_ALLOYS[0].stem}-curves.csv")
+    np.testing.assert_allclose(a.time_s, b.time_s, rtol=1e-4)
+
+
+def test_bad_driving_force_table(tmp_path):
+    text = GOOD.replace('driving_force = "turnbull"', 'driving_force = "table"\ndriving_force_table = "dgm.csv"')
+    text = text.replace("equilibrium_temperature_C = 505.0", "").replace("latent_heat_J_mol = 10.0e3", "")
+    path = _bad(tmp_path, text)
+    result = run("check", path)
+    assert result.exit_code == 2 and "does not exist" in result.output
+    (tmp_path / "dgm.csv").write_text("T,G\n1,2\n")
+    result = run("check", path)
+    assert result.exit_code == 2 and "temperature_C, dGm_J_mol" in result.output
