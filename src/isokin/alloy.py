@@ -18,6 +18,7 @@ import pandas as pd
 
 from .constants import celsius_to_kelvin
 from .driving_force import DrivingForceTable
+from .diagram import UPPER_MARGIN_K
 from .errors import InputError
 from .nucleation_growth import DRIVING_FORCE_FORMS, NucleationGrowthParameters, NucleationGrowthProduct
 from .jmak import MODES
@@ -285,7 +286,7 @@ def _nucleation_growth_model(source: Path, head: dict, data: dict) -> AlloyModel
         products=products,
         lines_K=lines,
         line_methods=methods,
-        default_range_K=(lower, upper - 0.5),
+        default_range_K=(lower, upper - UPPER_MARGIN_K),
         inputs={"alloy": data["alloy"], "product": tables},
         footer=f"model: {products[0].model}",
     )

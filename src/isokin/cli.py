@@ -19,12 +19,7 @@ from .alloy import AlloyModel, load_alloy
 from .constants import celsius_to_kelvin, kelvin_to_celsius
 from .diagram import DEFAULT_POINTS, compute_diagram, default_fractions, temperature_grid
 from .errors import InputError
-
-CAUTION = (
-    "Estimates only. Confirm with dilatometry or a trial heat treatment before production. Molten salt, "
-    "hot oil and quench tanks are hazards: follow the applicable heat-treatment specifications, local "
-    "codes and a qualified metallurgist's sign-off for safety-critical parts."
-)
+from .readout import CAUTION, format_duration
 
 app = typer.Typer(
     add_completion=False,
@@ -79,15 +74,11 @@ def _fractions(extra):
     return default_fractions(fr)
 
 
-def _format_time(t_s):
-    return f"{t_s:.3g} s" if t_s < 600 else f"{t_s:.3g} s ({t_s / 3600:.3g} h)"
-
-
 def _print_noses(diagram):
     typer.echo(f"{'product':<14}{'fraction':>9}  {'nose °C':>9}  nose time")
     for nose in diagram.noses:
         where = "" if nose.inside else "  (at the edge of the range: the true nose lies outside)"
-        typer.echo(f"{nose.product:<14}{nose.fraction:>9.3g}  {nose.temperature_C:>9.1f}  {_format_time(nose.time_s)}{where}")
+        typer.echo(f"{nose.product:<14}{nose.fraction:>9.3g}  {nose.temperature_C:>9.1f}  {format_duration(nose.time_s)}{where}")
     formed = {n.product for n in diagram.noses}
     for product in diagram.products:
         if product.name not in formed:
@@ -202,20 +193,11 @@ def check(
 
 
 def _print_nuclei(product):
-    from .constants import BOLTZMANN_J_K
-
-    upper = float(product.upper_K)
-    typer.echo(f"  {product.name}: critical nucleus below {kelvin_to_celsius(upper):.1f} °C")
+    rows = product.nucleus_table((10.0, 50.0, 100.0, 200.0))
+    typer.echo(f"  {product.name}: critical nucleus below {kelvin_to_celsius(float(product.upper_K)):.1f} °C")
     typer.echo(f"    {'undercooling K':>14}  {'r* nm':>9}  {'dG* J':>10}  {'dG*/kT':>8}  {'ln I':>8}")
-    for dt in (10.0, 50.0, 100.0, 200.0):
-        T = upper - dt
-        if T <= max(float(product.lower_K), 0.0):
-            continue
-        r, barrier, log_i, _, _ = product.nucleus(T)
-        typer.echo(
-            f"    {dt:>14.0f}  {float(r) * 1e9:>9.3g}  {float(barrier):>10.3g}  "
-            f"{float(barrier) / (BOLTZMANN_J_K * T):>8.3g}  {float(log_i):>8.3g}"
-        )
+    for dt, r, barrier, barrier_kt, log_i in zip(*rows.values()):
+        typer.echo(f"    {dt:>14.0f}  {r * 1e9:>9.3g}  {barrier:>10.3g}  {barrier_kt:>8.3g}  {log_i:>8.3g}")
 
 
 @app.command()

@@ -101,12 +101,6 @@ def temperature_grid(tmin_K, tmax_K, points=DEFAULT_POINTS):
     return np.linspace(tmin_K, tmax_K, int(points))
 
 
-def default_upper_K(products):
-    """Just below the highest temperature at which any product can form."""
-    upper = max(float(np.max(p.upper_K)) for p in products)
-    return upper - UPPER_MARGIN_K
-
-
 def _refine_nose(product, fraction, grid, row):
     finite = np.isfinite(row)
     if not finite.any():

@@ -15,6 +15,7 @@ from pathlib import Path
 from . import __version__
 from .constants import kelvin_to_celsius
 from .diagram import PRACTICAL_HORIZON_S, Diagram
+from .readout import CAUTION_SHORT
 
 CURVE_COLUMNS = ["product", "fraction", "temperature_C", "time_s"]
 
@@ -74,7 +75,7 @@ def summary(diagram: Diagram, alloy) -> dict:
         "products": products,
         "warnings": list(alloy.warnings),
         "inputs": alloy.inputs,
-        "note": "Predictions are estimates: confirm by dilatometry or trial heat treatment before production.",
+        "note": CAUTION_SHORT,
     }
 
 

@@ -134,8 +134,3 @@ def log_nucleation_rate_turnbull_fisher(T_K, site_density_m3, activation_J_mol, 
         - np.asarray(activation_J_mol) / (GAS_CONSTANT_J_MOL_K * T_K)
         - np.asarray(barrier_J) / kT
     )
-
-
-def nucleation_rate_turnbull_fisher(T_K, site_density_m3, activation_J_mol, barrier_J):
-    """Steady-state nucleation rate I in 1/(m^3 s); see :func:`log_nucleation_rate_turnbull_fisher`."""
-    return np.exp(log_nucleation_rate_turnbull_fisher(T_K, site_density_m3, activation_J_mol, barrier_J))

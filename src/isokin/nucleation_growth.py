@@ -12,7 +12,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from . import jmak
-from .constants import AVOGADRO_PER_MOL
+from .constants import AVOGADRO_PER_MOL, BOLTZMANN_J_K
 from .driving_force import (
     DrivingForceTable,
     driving_force_hoffman,
@@ -129,6 +129,22 @@ class NucleationGrowthProduct:
         d = diffusivity_arrhenius(T_K, p.diffusion_prefactor_m2_s, p.diffusion_activation_J_mol)
         u = growth_velocity_diffusion_limited(T_K, d, p.diffusion_distance_m, dgv * p.molar_volume_m3_mol)
         return critical_radius(p.interface_energy_J_m2, dgv), barrier, log_i, u, np.log(sites)
+
+    def nucleus_table(self, undercoolings_K):
+        """r* (m), dG* (J), dG*/kT and ln I at undercoolings below the upper temperature.
+
+        Undercoolings that would fall below the product's lower bound are left out.
+        """
+        T = float(self.upper_K) - np.asarray(undercoolings_K, dtype=float)
+        T = T[T > max(float(self.lower_K), 0.0)]
+        r, barrier, log_i, _, _ = self.nucleus(T)
+        return {
+            "undercooling_K": float(self.upper_K) - T,
+            "critical_radius_m": r,
+            "barrier_J": barrier,
+            "barrier_over_kT": barrier / (BOLTZMANN_J_K * T),
+            "log_nucleation_rate": log_i,
+        }
 
     def log_rate_constant(self, T_K):
         """ln K(T) of X = 1 - exp(-K t^n) with the product's exponent; -inf where it cannot form."""

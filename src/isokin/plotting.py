@@ -16,11 +16,8 @@ import numpy as np  # noqa: E402
 from .constants import kelvin_to_celsius  # noqa: E402
 from .diagram import PRACTICAL_HORIZON_S, Diagram  # noqa: E402
 from .export import atomic_path  # noqa: E402
+from .readout import CAUTION_SHORT, format_duration  # noqa: E402
 
-CAUTION = (
-    "Estimate only: confirm by dilatometry or trial heat treatment before production; "
-    "follow the applicable specifications and local codes."
-)
 #: Dark, well-separated hues whose grey levels also differ.
 PRODUCT_COLOURS = ("#17324d", "#a8431a", "#2e6b3c", "#5b3a7a", "#7a6a12")
 PRODUCT_MARKERS = ("D", "o", "s", "^", "v")
@@ -28,18 +25,6 @@ FRACTION_STYLES = {0.01: (0, (5, 2.5)), 0.5: "-", 0.99: (0, (1.2, 1.6))}
 OTHER_FRACTION_STYLE = (0, (6, 2, 1.2, 2))
 LINE_STYLE = {"color": "#555555", "linewidth": 0.8, "linestyle": (0, (8, 3))}
 TIME_MARKS_S = {"1 min": 60.0, "1 h": 3600.0, "1 day": 86400.0, "1 week": 604800.0}
-
-
-def _format_time(t_s):
-    if t_s < 1e-3:
-        return f"{t_s:.2g} s"
-    if t_s < 100:
-        return f"{t_s:.3g} s"
-    if t_s < 5400:
-        return f"{t_s / 60:.3g} min"
-    if t_s < 172800:
-        return f"{t_s / 3600:.3g} h"
-    return f"{t_s / 86400:.3g} d"
 
 
 def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
@@ -92,7 +77,7 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
     if alloy.warnings:
         footer += (f"\n{len(alloy.warnings)} warning(s) for this input, such as a composition outside a model's "
                    "calibrated range: see the summary JSON.")
-    fig.text(0.01, 0.005, f"{footer}\n{CAUTION} isokin estimate.", fontsize=6.8, color="#444444",
+    fig.text(0.01, 0.005, f"{footer}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
     fig.get_layout_engine().set(rect=(0, 0.065, 1, 0.935))
     return fig
@@ -108,11 +93,11 @@ def _nose_labels(diagram: Diagram):
             continue
         temps = [n.temperature_C for n in noses]
         if max(temps) - min(temps) < 1.0:  # the fractions share one nose temperature
-            times = "\n".join(f"{n.fraction * 100:g} %: {_format_time(n.time_s)}" for n in noses)
+            times = "\n".join(f"{n.fraction * 100:g} %: {format_duration(n.time_s)}" for n in noses)
             labels.append((i, float(np.mean(temps)), f"{product.name} nose {np.mean(temps):.0f} °C\n{times}", noses))
         else:
             labels += [(i, n.temperature_C, f"{product.name} {n.fraction * 100:g} % nose\n"
-                        f"{n.temperature_C:.0f} °C, {_format_time(n.time_s)}", [n]) for n in noses]
+                        f"{n.temperature_C:.0f} °C, {format_duration(n.time_s)}", [n]) for n in noses]
     return labels
 
 

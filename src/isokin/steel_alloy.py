@@ -13,6 +13,7 @@ import numpy as np
 
 from .alloy import AlloyModel, Key, read_table
 from .constants import celsius_to_kelvin, kelvin_to_celsius
+from .diagram import UPPER_MARGIN_K
 from .errors import InputError
 from .steel.composition import ELEMENTS, Composition, range_warnings
 from .steel.critical import CALIBRATED_RANGES
@@ -70,9 +71,6 @@ def parse_inline_composition(text: str) -> dict:
 def steel_model_inline(text: str, grain_size_astm: float | None) -> AlloyModel:
     """The steel model of a heat analysis given on the command line."""
     composition = parse_inline_composition(text)
-    unknown = [s for s in composition if s not in ELEMENTS]
-    if unknown:
-        _composition(None, "--composition", {unknown[0]: composition[unknown[0]]})
     notes = []
     if grain_size_astm is None:
         grain_size_astm = DEFAULT_GRAIN_SIZE_ASTM
@@ -96,9 +94,9 @@ def _composition(source, where, mass_percent) -> Composition:
 
 def build_steel_model(source, name: str, mass_percent: dict, steel: dict, inputs: dict) -> AlloyModel:
     where = "composition" if source is not None else "--composition"
-    if "C" not in mass_percent:
-        raise InputError(source, f"{where}", "carbon (C) is required: the steel models depend on it")
     composition = _composition(source, where, mass_percent)
+    if "C" not in mass_percent:
+        raise InputError(source, where, "carbon (C) is required: the steel models depend on it")
     grain = steel["grain_size_astm"]
     ms_method = steel.get("ms_method", "andrews_1965")
     products, critical = li1998_products(composition, grain, ms_method)
@@ -135,7 +133,7 @@ def build_steel_model(source, name: str, mass_percent: dict, steel: dict, inputs
         products=products,
         lines_K=lines,
         line_methods=methods,
-        default_range_K=(lower, upper - 0.5),
+        default_range_K=(lower, upper - UPPER_MARGIN_K),
         inputs=inputs,
         footer=footer,
         warnings=warnings,
