@@ -59,10 +59,31 @@ def test_inline_composition_matches_the_same_file(tmp_path):
                  "--out", tmp_path / "inline")
     assert result.exit_code == 0, result.output
     assert run("diagram", ROOT / "alloys" / "aisi-4140-crmo.toml", "--out", tmp_path / "file").exit_code == 0
-    a = pd.read_csv(tmp_path / "inline" / "composition-curves.csv")
+    a = pd.read_csv(tmp_path / "inline" / "heat-c0.405-mn0.875-si0.25-cr0.95-mo0.2-curves.csv")
     b = pd.read_csv(tmp_path / "file" / "aisi-4140-crmo-curves.csv")
     pd.testing.assert_frame_equal(a, b)
     assert run("check", "--composition", "C=0.79,Mn=0.76", "--grain-size", 6).exit_code == 0
+
+
+def test_inline_heat_carries_the_steel_file_options_and_its_own_stem(tmp_path):
+    # A second heat no longer collides with the first; a name becomes the stem; the Ms
+    # method and austenitizing temperature reach the summary as they do from a file.
+    out = tmp_path / "out"
+    first = run("diagram", "--composition", "C=0.40,Mn=0.85", "--out", out)
+    second = run("diagram", "--composition", "C=0.42,Mn=0.85", "--out", out)
+    assert first.exit_code == 0 and second.exit_code == 0, second.output
+    named = run("diagram", "--composition", "C=0.40,Mn=0.85", "--name", "Heat 4711 / ladle 2", "--ms-method",
+                "steven_haynes_1956", "--austenitizing-c", "700", "--out", out)
+    assert named.exit_code == 0, named.output
+    summary = json.loads((out / "heat-4711-ladle-2-summary.json").read_text())
+    assert summary["alloy"] == "Heat 4711 / ladle 2"
+    assert summary["critical_temperatures"]["Ms"]["method"] == "Steven & Haynes (1956)"
+    assert summary["inputs"]["steel"]["austenitizing_temperature_C"] == 700.0
+    assert any("austenitizing at 700" in w for w in summary["warnings"])
+    assert len(list(out.glob("*-summary.json"))) == 3
+    bad = run("check", "--composition", "C=0.4", "--ms-method", "andrews")
+    assert bad.exit_code == 2 and bad.output.strip().startswith("isokin: error: --ms-method:")
+    assert run("check", ROOT / "alloys" / "aisi-4140-crmo.toml", "--name", "x").exit_code == 2
 
 
 def test_out_of_range_composition_warns_but_runs(tmp_path):

@@ -5,7 +5,7 @@ import pytest
 from scipy.integrate import quad
 from scipy.optimize import brentq
 
-from isokin import jmak
+from isokin.relations import jmak
 
 EXPONENTS = [1.0, 1.5, 2.0, 2.5, 3.0, 4.0]
 

@@ -6,14 +6,14 @@ from scipy.integrate import quad
 from scipy.optimize import brentq, minimize_scalar
 
 from isokin.constants import AVOGADRO_PER_MOL, BOLTZMANN_J_K, GAS_CONSTANT_J_MOL_K, PLANCK_J_S
-from isokin.driving_force import (
+from isokin.relations.driving_force import (
     DrivingForceTable,
     driving_force_hoffman,
     driving_force_table,
     driving_force_turnbull_linear,
 )
-from isokin.growth import diffusivity_arrhenius, growth_velocity_diffusion_limited
-from isokin.nucleation import (
+from isokin.relations.growth import diffusivity_arrhenius, growth_velocity_diffusion_limited
+from isokin.relations.nucleation import (
     critical_radius,
     log_nucleation_rate_turnbull_fisher,
     nucleation_barrier_homogeneous,

@@ -11,7 +11,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from isokin.steel.reaction_integral import (
+from isokin.relations.li_reaction import (
     reaction_integral,
     reaction_integrand,
     reaction_rate_shape,

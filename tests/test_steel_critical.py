@@ -9,8 +9,8 @@ from hypothesis import strategies as st
 from scipy.optimize import brentq
 
 from isokin.constants import celsius_to_kelvin, kelvin_to_celsius
-from isokin.steel.composition import ELEMENTS, Composition, range_warnings, validate_composition
-from isokin.steel.critical import (
+from isokin.relations.composition import ELEMENTS, Composition, range_warnings, validate_composition
+from isokin.relations.steel_critical import (
     ae1_andrews_1965,
     ae3_andrews_1965,
     bs_steven_haynes_1956,

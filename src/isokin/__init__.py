@@ -1,3 +1,39 @@
-"""isokin: isothermal transformation diagrams from nucleation and growth kinetics."""
+"""isokin: isothermal transformation (TTT) diagrams from nucleation and growth kinetics.
 
-__version__ = "0.1.0"
+The public API, the same functions the command line calls::
+
+    import isokin
+    alloy = isokin.load_alloy("alloys/aisi-4140-crmo.toml")   # or isokin.steel({"C": 0.4, ...}, 7.0)
+    result = isokin.ttt(alloy)
+    result.to_frame()          # product, fraction, temperature_C, time_s
+    isokin.plot_ttt(result)    # draws into a matplotlib Axes and returns it
+
+Names are imported on first use, so ``import isokin`` stays cheap.
+"""
+
+__version__ = "0.2.0"
+
+_EXPORTS = {
+    "load_alloy": "isokin.io.alloy_file",
+    "steel": "isokin.products.steel",
+    "Alloy": "isokin.products.alloy",
+    "ttt": "isokin.compute.ttt",
+    "TTTResult": "isokin.results",
+    "plot_ttt": "isokin.plot.ttt",
+    "InputError": "isokin.errors",
+}
+__all__ = ["__version__", *_EXPORTS]
+
+
+def __getattr__(name):
+    if name in _EXPORTS:
+        import importlib
+
+        value = getattr(importlib.import_module(_EXPORTS[name]), name)
+        globals()[name] = value
+        return value
+    raise AttributeError(f"module 'isokin' has no attribute {name!r}")
+
+
+def __dir__():
+    return sorted(set(globals()) | set(_EXPORTS))

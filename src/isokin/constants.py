@@ -1,13 +1,15 @@
-"""Physical constants in SI units (CODATA values as shipped by scipy)."""
+"""Physical constants in SI units and the kelvin/Celsius conversions.
 
-from scipy import constants as _c
+Exact values of the 2019 SI redefinition (k, h, N_A exact; R = k N_A), written out so that
+reading an alloy file does not import scipy; a test checks them against scipy.constants.
+"""
 
-BOLTZMANN_J_K = _c.k
-PLANCK_J_S = _c.h
-GAS_CONSTANT_J_MOL_K = _c.R
-AVOGADRO_PER_MOL = _c.N_A
-ZERO_CELSIUS_K = _c.zero_Celsius
-CALORIE_J = _c.calorie  # thermochemical calorie, 4.184 J
+BOLTZMANN_J_K = 1.380649e-23
+PLANCK_J_S = 6.62607015e-34
+AVOGADRO_PER_MOL = 6.02214076e23
+GAS_CONSTANT_J_MOL_K = BOLTZMANN_J_K * AVOGADRO_PER_MOL
+ZERO_CELSIUS_K = 273.15
+CALORIE_J = 4.184  # thermochemical calorie
 
 
 def celsius_to_kelvin(t_c):

@@ -2,9 +2,20 @@
 
 
 class InputError(Exception):
-    """Bad input from the user: shown as one line, exit code 2."""
+    """Bad input from the user: shown as one line, exit code 2.
+
+    The library names keys as the alloy file does (``composition``, ``steel.grain_size_astm``);
+    a caller that took the value from elsewhere (a command-line option) names its own key
+    with :meth:`relocated`.
+    """
 
     def __init__(self, source, key, problem):
+        self.source, self.key, self.problem = source, key, problem
         where = f"{source}: " if source else ""
         at = f"{key}: " if key else ""
         super().__init__(f"{where}{at}{problem}")
+
+    def relocated(self, source=None, keys=None):
+        """The same error, from ``source`` and with the key renamed through ``keys``."""
+        key = (keys or {}).get(self.key, self.key)
+        return InputError(source if source is not None else self.source, key, self.problem)

@@ -1,22 +1,19 @@
-"""The diagram as a figure: C-curves, noses, reference lines and a footer.
+"""The isothermal diagram as a figure: C-curves, noses, reference lines and a footer.
 
-Reads a computed Diagram; computes no physics.  The style is meant to survive a grey-scale
-printer: each fraction has its own line pattern and each product its own marker, so colour
-is a help, never the only cue.
+Reads a computed TTTResult; computes no physics and never switches the matplotlib backend
+(the command line picks a non-interactive one itself; a notebook keeps its own). The style
+is meant to survive a grey-scale printer: each fraction has its own line pattern and each
+product its own marker, so colour is a help, never the only cue.
 """
 
 from __future__ import annotations
 
-import matplotlib
+import matplotlib.pyplot as plt
+import numpy as np
 
-matplotlib.use("Agg")
-import matplotlib.pyplot as plt  # noqa: E402
-import numpy as np  # noqa: E402
-
-from .constants import kelvin_to_celsius  # noqa: E402
-from .diagram import PRACTICAL_HORIZON_S, Diagram  # noqa: E402
-from .export import atomic_path  # noqa: E402
-from .readout import CAUTION_SHORT, format_duration  # noqa: E402
+from ..constants import kelvin_to_celsius
+from ..readout import CAUTION_SHORT, format_duration
+from ..results import PRACTICAL_HORIZON_S, TTTResult
 
 #: Dark, well-separated hues whose grey levels also differ.
 PRODUCT_COLOURS = ("#17324d", "#a8431a", "#2e6b3c", "#5b3a7a", "#7a6a12")
@@ -27,21 +24,36 @@ LINE_STYLE = {"color": "#555555", "linewidth": 0.8, "linestyle": (0, (8, 3))}
 TIME_MARKS_S = {"1 min": 60.0, "1 h": 3600.0, "1 day": 86400.0, "1 week": 604800.0}
 
 
-def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
-    """Build the figure; returns the matplotlib Figure."""
-    fig, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
-    t_c = kelvin_to_celsius(diagram.temperatures_K)
+def plot_ttt(result: TTTResult, ax=None):
+    """Draw the C-curves, their noses and the critical lines of one alloy into ``ax``.
+
+    Parameters
+    ----------
+    result : TTTResult
+        Of a single alloy; for a batch, pass ``result.member(i)``.
+    ax : matplotlib Axes, optional
+        Where to draw; a new figure's Axes when not given.
+
+    Returns
+    -------
+    matplotlib Axes
+    """
+    if result.batch_shape:
+        raise ValueError("plot_ttt draws one alloy; pass result.member(i) for a member of a batch")
+    if ax is None:
+        _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
+    t_c = result.temperatures_C
     shown_times = []
-    for i, product in enumerate(diagram.products):
+    for i, name in enumerate(result.products):
         colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
-        ok = diagram.practical(product.name)
-        for k, x in enumerate(diagram.fractions):
+        ok = result.practical(name)
+        for k, x in enumerate(result.fractions):
             if not ok[k].any():
                 continue
-            times = np.where(ok[k], diagram.times_s[product.name][k], np.nan)
+            times = np.where(ok[k], result.times_s[name][k], np.nan)
             shown_times.append(times[ok[k]])
             style = FRACTION_STYLES.get(round(float(x), 6), OTHER_FRACTION_STYLE)
-            ax.plot(times, t_c, color=colour, linestyle=style, linewidth=1.6, label=f"{product.name} {x * 100:g} %")
+            ax.plot(times, t_c, color=colour, linestyle=style, linewidth=1.6, label=f"{name} {x * 100:g} %")
     if not shown_times:
         ax.text(0.5, 0.5, "no product forms within the practical horizon in this range",
                 transform=ax.transAxes, ha="center")
@@ -51,11 +63,11 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
         lo, hi = every.min() / 400.0, min(every.max() * 4.0, PRACTICAL_HORIZON_S)
     ax.set_xscale("log")
     ax.set_xlim(lo, hi)
-    lines_c = [float(kelvin_to_celsius(t)) for t in alloy.lines_K.values()]
+    lines_c = [float(kelvin_to_celsius(t)) for t in result.critical_K.values()]
     bottom, top_c = min(t_c[0], *lines_c), max(t_c[-1], *lines_c)
     ax.set_ylim(bottom - 0.03 * (top_c - bottom), top_c + 0.06 * (top_c - bottom))
     if shown_times:
-        _mark_noses(ax, diagram, every.min() / 1.8, 0.026 * (t_c[-1] - t_c[0]))
+        _mark_noses(ax, result, every.min() / 1.8, 0.026 * (t_c[-1] - t_c[0]))
     for t_s in TIME_MARKS_S.values():
         if lo < t_s < hi:
             ax.axvline(t_s, color="#c8c8c8", linewidth=0.7, zorder=0)
@@ -63,19 +75,26 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
     top = ax.secondary_xaxis("top")
     top.set_xticks(list(marks.values()), list(marks.keys()), fontsize=8, color="#555555")
     top.tick_params(which="minor", top=False)
-    for name, t_k in alloy.lines_K.items():
+    for name, t_k in result.critical_K.items():
         y = float(kelvin_to_celsius(t_k))
         ax.axhline(y, **LINE_STYLE, zorder=1)
         ax.text(0.995, y, f"{name} {y:.0f} °C", transform=ax.get_yaxis_transform(), va="bottom", ha="right",
                 fontsize=7.5, color="#333333")
     ax.set_xlabel("hold time, s (log scale)")
     ax.set_ylabel("hold temperature, °C")
-    ax.set_title(f"Isothermal transformation: {alloy.name}", fontsize=11, loc="left")
+    ax.set_title(f"Isothermal transformation: {result.alloy}", fontsize=11, loc="left")
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
-    ax.legend(loc="best", fontsize=7.5, frameon=True, framealpha=0.92, ncols=1 if len(diagram.products) < 2 else 2)
-    footer = " · ".join(s for s in (alloy.footer, footer_extra) if s)
-    if alloy.warnings:
-        footer += (f"\n{len(alloy.warnings)} warning(s) for this input, such as a composition outside a model's "
+    ax.legend(loc="best", fontsize=7.5, frameon=True, framealpha=0.92, ncols=1 if len(result.products) < 2 else 2)
+    return ax
+
+
+def ttt_figure(result: TTTResult, footer_extra=""):
+    """A whole figure for a report: the diagram and a footer with the model and the cautions."""
+    fig, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
+    plot_ttt(result, ax)
+    footer = " · ".join(s for s in (result.footer, footer_extra) if s)
+    if result.warnings:
+        footer += (f"\n{len(result.warnings)} warning(s) for this input, such as a composition outside a model's "
                    "calibrated range: see the summary JSON.")
     fig.text(0.01, 0.005, f"{footer}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
@@ -83,21 +102,23 @@ def draw_diagram(diagram: Diagram, alloy, footer_extra=""):
     return fig
 
 
-def _nose_labels(diagram: Diagram):
-    """One label per product nose: (product index, temperature °C, text, [noses])."""
+def _nose_labels(result: TTTResult):
+    """One label per product nose: (product index, temperature °C, text, [(fraction, T °C, t s)])."""
     labels = []
-    for i, product in enumerate(diagram.products):
-        noses = [n for n in diagram.noses
-                 if n.product == product.name and n.inside and n.time_s <= PRACTICAL_HORIZON_S]
+    for i, name in enumerate(result.products):
+        n = result.noses[name]
+        keep = n.inside & n.forms
+        noses = [(float(x), float(T), float(t)) for x, T, t in
+                 zip(result.fractions[keep], n.temperature_C[keep], n.time_s[keep])]
         if not noses:
             continue
-        temps = [n.temperature_C for n in noses]
+        temps = [T for _, T, _ in noses]
         if max(temps) - min(temps) < 1.0:  # the fractions share one nose temperature
-            times = "\n".join(f"{n.fraction * 100:g} %: {format_duration(n.time_s)}" for n in noses)
-            labels.append((i, float(np.mean(temps)), f"{product.name} nose {np.mean(temps):.0f} °C\n{times}", noses))
+            times = "\n".join(f"{x * 100:g} %: {format_duration(t)}" for x, _, t in noses)
+            labels.append((i, float(np.mean(temps)), f"{name} nose {np.mean(temps):.0f} °C\n{times}", noses))
         else:
-            labels += [(i, n.temperature_C, f"{product.name} {n.fraction * 100:g} % nose\n"
-                        f"{n.temperature_C:.0f} °C, {format_duration(n.time_s)}", [n]) for n in noses]
+            labels += [(i, T, f"{name} {x * 100:g} % nose\n{T:.0f} °C, {format_duration(t)}", [(x, T, t)])
+                       for x, T, t in noses]
     return labels
 
 
@@ -120,9 +141,9 @@ def _spread(positions, gap):
     return out
 
 
-def _mark_noses(ax, diagram: Diagram, x_label, line_C):
+def _mark_noses(ax, result: TTTResult, x_label, line_C):
     """Mark every nose; labels stack in the empty region left of the earliest curve."""
-    labels = _nose_labels(diagram)
+    labels = _nose_labels(result)
     if not labels:
         return
     heights = [line_C * (lab[2].count("\n") + 1.4) for lab in labels]
@@ -130,20 +151,13 @@ def _mark_noses(ax, diagram: Diagram, x_label, line_C):
     for (i, _, text, noses), y in zip(labels, ys):
         colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
         marker = PRODUCT_MARKERS[i % len(PRODUCT_MARKERS)]
-        for nose in noses:
-            ax.plot(nose.time_s, nose.temperature_C, marker=marker, color=colour, markersize=6.5,
+        for _, T, t in noses:
+            ax.plot(t, T, marker=marker, color=colour, markersize=6.5,
                     markerfacecolor="white", markeredgewidth=1.4, zorder=5)
-        first = min(noses, key=lambda n: n.time_s)
+        _, T, t = min(noses, key=lambda n: n[2])
         ax.annotate(
-            text, (first.time_s, first.temperature_C), xytext=(x_label, y), fontsize=7, color=colour, linespacing=1.15,
+            text, (t, T), xytext=(x_label, y), fontsize=7, color=colour, linespacing=1.15,
             ha="right", va="center",
             bbox={"boxstyle": "square,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85},
             arrowprops={"arrowstyle": "-", "color": colour, "linewidth": 0.6, "shrinkA": 0, "shrinkB": 4},
         )
-
-
-def save_figure(fig, target):
-    """Write the figure atomically; the format follows the extension (png, svg, pdf)."""
-    with atomic_path(target) as tmp:
-        fig.savefig(tmp, dpi=150, format=str(target).rsplit(".", 1)[-1])
-    plt.close(fig)

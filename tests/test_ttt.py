@@ -1,12 +1,15 @@
-"""The diagram solver: ordering, C-shape, noses, monotone effects, batches (hypothesis)."""
+"""The TTT solver: ordering, C-shape, noses, monotone effects, batches (hypothesis)."""
 
 import numpy as np
 import pytest
 from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
-from isokin.diagram import compute_diagram, temperature_grid
-from isokin.nucleation_growth import NucleationGrowthParameters, NucleationGrowthProduct
+from isokin.compute.grid import temperature_grid
+from isokin.compute.ttt import solve_ttt
+from isokin.products.nucleation_growth import NucleationGrowthParameters, NucleationGrowthProduct
+
+FRACTIONS = (0.01, 0.5, 0.99)
 
 # Plausible metallic ranges (common practice, no single source): interface energies of
 # coherent to incoherent interfaces, latent heats of solid-state and melting reactions,
@@ -45,12 +48,16 @@ def _wide_grid(product):
     return temperature_grid(0.1 * upper, upper - 0.5, 400)
 
 
+def _solve(product, grid):
+    times, noses = solve_ttt([product], grid, FRACTIONS)
+    return times[product.name], noses[product.name]
+
+
 @settings(max_examples=60, deadline=None)
 @given(physical)
 def test_fraction_ordering_and_no_bad_times(values):
     product = _product(values)
-    d = compute_diagram([product], _wide_grid(product))
-    t = d.times_s[product.name]
+    t, _ = _solve(product, _wide_grid(product))
     assert not np.isnan(t).any() and np.all(t > 0)
     finite = np.isfinite(t).all(axis=0)
     assert np.all(t[0, finite] < t[1, finite]) and np.all(t[1, finite] < t[2, finite])
@@ -62,15 +69,14 @@ def test_one_nose_inside_the_bounds(values):
     # A C-curve: times fall from the equilibrium temperature to the nose and rise below it.
     product = _product(values)
     grid = _wide_grid(product)
-    d = compute_diagram([product], grid)
-    row = d.times_s[product.name][1]
+    times, noses = _solve(product, grid)
+    row = times[1]
     finite = np.isfinite(row)
     assume(finite.sum() >= 3)  # a barrier so high that nothing ever forms draws no curve at all
     r = row[finite]
     local_minima = np.sum((r[1:-1] < r[:-2]) & (r[1:-1] < r[2:]))
     assert local_minima == 1
-    nose = next(n for n in d.noses if n.fraction == 0.5)
-    assert nose.inside and grid[0] < nose.temperature_K < grid[-1]
+    assert noses.inside[1] and grid[0] < noses.temperature_K[1] < grid[-1]
 
 
 @settings(max_examples=40, deadline=None)
@@ -88,50 +94,60 @@ def test_larger_interface_energy_is_slower_everywhere(values, factor):
     assert np.all(np.isinf(t1[~np.isfinite(t0)]))
 
 
-def test_nose_refinement_matches_a_dense_grid():
-    # The bounded minimiser lands on the nose a 20,001-point grid finds, within 0.05 K,
-    # and never above the coarse grid's minimum time.
-    values = PRECIPITATION
-    product = _product(values)
-    coarse = compute_diagram([product], temperature_grid(420.0, 779.0, 50))
+def test_nose_refinement_matches_a_dense_grid_and_scipy():
+    # The vectorised golden-section search lands on the nose that a 20,001-point grid and
+    # scipy's bounded minimize_scalar (reference library) find, within 0.02 K, and never
+    # above the coarse grid's minimum time.
+    from scipy.optimize import minimize_scalar
+
+    product = _product(PRECIPITATION)
+    coarse = temperature_grid(420.0, 779.0, 50)
+    times, noses = _solve(product, coarse)
     dense = temperature_grid(420.0, 779.0, 20001)
     t_dense = product.time_to_fraction(dense, 0.5)
-    nose = next(n for n in coarse.noses if n.fraction == 0.5)
-    assert nose.temperature_K == pytest.approx(dense[np.argmin(t_dense)], abs=0.05)
-    assert nose.time_s <= coarse.times_s[product.name][1].min()
-    assert nose.time_s == pytest.approx(t_dense.min(), rel=1e-6)
+    assert noses.temperature_K[1] == pytest.approx(dense[np.argmin(t_dense)], abs=0.05)
+    assert noses.time_s[1] <= times[1].min()
+    assert noses.time_s[1] == pytest.approx(t_dense.min(), rel=1e-6)
+    for k, x in enumerate(FRACTIONS):
+        ref = minimize_scalar(lambda T: float(np.log(product.time_to_fraction(T, x))), bounds=(420.0, 779.0),
+                              method="bounded", options={"xatol": 1e-4})
+        assert noses.temperature_K[k] == pytest.approx(ref.x, abs=0.02)
+        assert noses.time_s[k] == pytest.approx(np.exp(ref.fun), rel=1e-7)
 
 
 def test_nose_outside_range_is_flagged():
-    values = PRECIPITATION
-    product = _product(values)
-    d = compute_diagram([product], temperature_grid(700.0, 779.0, 100))
-    assert not any(n.inside for n in d.noses)
+    _, noses = _solve(_product(PRECIPITATION), temperature_grid(700.0, 779.0, 100))
+    assert not noses.inside.any()
 
 
 def test_nothing_forms_above_equilibrium_and_curves_hold_only_practical_times():
-    values = PRECIPITATION
-    product = _product(values)
-    d = compute_diagram([product], temperature_grid(300.0, 900.0, 301))
-    assert np.all(np.isinf(d.times_s[product.name][:, d.temperatures_K >= 780.0]))
-    curves = d.curves()
+    import isokin
+    from isokin.products.nucleation_growth import nucleation_growth_alloy
+
+    alloy = nucleation_growth_alloy("test case", [_product(PRECIPITATION)])
+    result = isokin.ttt(alloy, temperatures_C=temperature_grid(300.0, 900.0, 301) - 273.15)
+    assert np.all(np.isinf(result.times_s["new phase"][:, result.temperatures_K >= 780.0]))
+    curves = result.to_frame()
     assert list(curves.columns) == ["product", "fraction", "temperature_C", "time_s"]
     assert np.all(np.isfinite(curves.time_s)) and curves.time_s.max() <= 1e9
     assert curves.temperature_C.max() < 780.0 - 273.15
 
 
 def test_batch_of_parameter_sets_equals_one_by_one():
-    # A batch is one numpy pass and gives the same numbers as separate products.
+    # A batch is one numpy pass and gives the same numbers as separate products: times and
+    # refined noses alike.
     rng = np.random.default_rng(7)
     gammas = rng.uniform(0.05, 0.2, 25)
-    values = PRECIPITATION
-    batch = _product(values, interface_energy_J_m2=gammas[:, None])
+    batch = _product(PRECIPITATION, interface_energy_J_m2=gammas)
     grid = temperature_grid(450.0, 779.0, 120)
-    together = batch.time_to_fraction(grid, 0.5)
-    assert together.shape == (25, 120)
+    assert batch.time_to_fraction(grid[None, :], 0.5).shape == (25, 120)
+    times, noses = _solve(batch, grid)
+    assert times.shape == (25, 3, 120) and noses.time_s.shape == (25, 3)
     for k, g in enumerate(gammas):
-        np.testing.assert_allclose(together[k], _product(values, interface_energy_J_m2=g).time_to_fraction(grid, 0.5),
-                                   rtol=1e-13)
+        t_one, n_one = _solve(_product(PRECIPITATION, interface_energy_J_m2=g), grid)
+        np.testing.assert_allclose(times[k], t_one, rtol=1e-13)
+        np.testing.assert_allclose(noses.temperature_K[k], n_one.temperature_K, atol=1e-9)
+        np.testing.assert_array_equal(noses.inside[k], n_one.inside)
 
 
 def test_strain_energy_lowers_the_upper_temperature():
@@ -148,13 +164,13 @@ def test_strain_energy_lowers_the_upper_temperature():
 
 
 def test_rate_form_matches_isothermal_times():
-    # Integrating dt = dX / rate(X, T) from X = 0.01 to 0.99 gives t99 - t01 (scipy quad).
+    # Integrating dt = dX / rate(T, X) from X = 0.01 to 0.99 gives t99 - t01 (scipy quad).
     from scipy.integrate import quad
 
     values = PRECIPITATION
     for p in (_product(values), _product(values, mode="site-saturation"), _product(values, avrami_exponent=2.5)):
         T = 640.0
-        span, _ = quad(lambda x: 1.0 / float(p.rate(x, T)), 0.01, 0.99, limit=200)
+        span, _ = quad(lambda x: 1.0 / float(p.rate(T, x)), 0.01, 0.99, limit=200)
         t01, t99 = p.time_to_fraction(T, np.array([0.01, 0.99]))
         assert span == pytest.approx(t99 - t01, rel=1e-7)
 

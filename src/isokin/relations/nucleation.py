@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .constants import BOLTZMANN_J_K, GAS_CONSTANT_J_MOL_K, PLANCK_J_S
+from ..constants import BOLTZMANN_J_K, GAS_CONSTANT_J_MOL_K, PLANCK_J_S
 
 
 def critical_radius(interface_energy_J_m2, dGv_J_m3):

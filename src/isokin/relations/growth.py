@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .constants import GAS_CONSTANT_J_MOL_K
+from ..constants import GAS_CONSTANT_J_MOL_K
 
 
 def diffusivity_arrhenius(T_K, prefactor_m2_s, activation_J_mol):

@@ -1,0 +1,290 @@
+"""Command line: thin wrappers that read input, call the library and report.
+
+No physics and no defaults of its own here. Bad input ends with one line on stderr and exit
+code 2. The library is imported inside each command, so ``isokin --help`` and ``isokin
+version`` start fast.
+"""
+
+from __future__ import annotations
+
+import os
+import re
+import sys
+from enum import Enum
+from pathlib import Path
+from typing import Annotated, Optional
+
+import typer
+
+from .. import __version__
+from ..errors import InputError
+from ..readout import CAUTION, format_duration
+
+app = typer.Typer(
+    add_completion=False,
+    no_args_is_help=True,
+    help="isokin: isothermal transformation (TTT) diagrams from nucleation and growth kinetics, "
+    "for heat-treatment planning. " + CAUTION,
+)
+
+#: Library keys as the command line names them.
+OPTION_NAMES = {
+    "composition": "--composition",
+    "steel.grain_size_astm": "--grain-size",
+    "steel.austenitizing_temperature_C": "--austenitizing-c",
+    "steel.ms_method": "--ms-method",
+    "tmin_C": "--tmin-c",
+    "tmax_C": "--tmax-c",
+    "points": "--points",
+    "fractions": "--fraction",
+}
+
+
+class FigureFormat(str, Enum):
+    png = "png"
+    svg = "svg"
+    pdf = "pdf"
+
+
+def fail(error):
+    """One line on stderr and exit 2; a library key not from a file is named as its option."""
+    if isinstance(error, InputError) and not error.source:
+        error = error.relocated(keys=OPTION_NAMES)
+    typer.echo(f"isokin: error: {error}", err=True)
+    raise typer.Exit(2)
+
+
+def parse_inline_composition(text: str) -> dict:
+    """'C=0.79,Mn=0.76' -> {'C': 0.79, 'Mn': 0.76}; raises InputError on a malformed entry."""
+    out = {}
+    for item in filter(None, (s.strip() for s in text.replace(";", ",").split(","))):
+        symbol, sep, value = item.partition("=")
+        symbol = symbol.strip()
+        try:
+            number = float(value)
+        except ValueError:
+            number = None
+        if not sep or not symbol or number is None:
+            raise InputError(None, "--composition", f"'{item}' is not of the form Element=mass%, e.g. C=0.79")
+        if symbol in out:
+            raise InputError(None, "--composition", f"{symbol} is given twice")
+        out[symbol] = number
+    if not out:
+        raise InputError(None, "--composition", 'is empty; give e.g. "C=0.79,Mn=0.76"')
+    return out
+
+
+def _stem(text: str) -> str:
+    """A file stem from a name: lower case, runs of other characters as one hyphen."""
+    return re.sub(r"[^a-z0-9.]+", "-", text.lower()).strip("-.") or "heat"
+
+
+class Inline:
+    """The steel options that go with --composition."""
+
+    def __init__(self, composition, grain_size, austenitizing_c, ms_method, name):
+        self.composition, self.grain_size, self.austenitizing_c = composition, grain_size, austenitizing_c
+        self.ms_method, self.name = ms_method, name
+
+    def given(self):
+        return {k: v for k, v in (("--grain-size", self.grain_size), ("--austenitizing-c", self.austenitizing_c),
+                                  ("--ms-method", self.ms_method), ("--name", self.name)) if v is not None}
+
+
+def _load(alloy_file: Optional[Path], inline: Inline):
+    """The alloy and its output stem, from a file or an inline heat analysis."""
+    if inline.composition is None:
+        if alloy_file is None:
+            raise InputError(None, "ALLOY", "name an alloy file (alloys/*.toml) or give --composition \"C=0.8,Mn=0.7\"")
+        for option in inline.given():
+            raise InputError(None, option, "goes with --composition; an alloy file sets it itself")
+        from ..io.alloy_file import load_alloy
+
+        return load_alloy(alloy_file), alloy_file.stem
+    if alloy_file is not None:
+        raise InputError(None, "--composition", "give either an alloy file or --composition, not both")
+    from ..products.steel import DEFAULT_GRAIN_SIZE_ASTM, steel
+
+    composition = parse_inline_composition(inline.composition)
+    notes = [] if inline.grain_size is not None else [f"no --grain-size given; taking ASTM {DEFAULT_GRAIN_SIZE_ASTM:g}"]
+    analysis = ", ".join(f"{k} {v:g}" for k, v in composition.items())
+    name = inline.name or f"heat analysis {analysis}"
+    alloy = steel(composition, inline.grain_size, name=name, austenitizing_temperature_C=inline.austenitizing_c,
+                  ms_method=inline.ms_method)
+    stem = _stem(inline.name) if inline.name else _stem("heat " + " ".join(f"{k}{v:g}" for k, v in composition.items()))
+    return alloy.replace(warnings=(*notes, *alloy.warnings)), stem
+
+
+def _print_noses(result):
+    typer.echo(f"{'product':<14}{'fraction':>9}  {'nose °C':>9}  nose time")
+    for name in result.products:
+        n = result.noses[name]
+        for k, x in enumerate(result.fractions):
+            if n.forms[k]:
+                where = "" if n.inside[k] else "  (at the edge of the range: the true nose lies outside)"
+                typer.echo(f"{name:<14}{x:>9.3g}  {float(n.temperature_C[k]):>9.1f}  "
+                           f"{format_duration(float(n.time_s[k]))}{where}")
+    for name in result.products:
+        if not result.noses[name].forms.any():
+            typer.echo(f"{name:<14}  does not form in the temperature range asked for")
+
+
+def _warn(alloy):
+    for line in alloy.warnings:
+        typer.echo(f"isokin: warning: {line}", err=True)
+
+
+def _output_paths(out: Path, stem: str, fmt: str, overwrite: bool):
+    try:
+        out.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        raise InputError(None, "--out", f"cannot create folder {out} ({exc.strerror})") from None
+    if not out.is_dir() or not os.access(out, os.W_OK | os.X_OK):
+        raise InputError(None, "--out", f"folder {out} is not writable; choose another with --out")
+    paths = {
+        "figure": out / f"{stem}.{fmt}",
+        "curves": out / f"{stem}-curves.csv",
+        "summary": out / f"{stem}-summary.json",
+    }
+    existing = [str(p) for p in paths.values() if p.exists()]
+    if existing and not overwrite:
+        raise InputError(None, "--out", f"{existing[0]} exists; pass --overwrite to replace it, or choose another --out")
+    return paths
+
+
+AlloyArg = Annotated[
+    Optional[Path],
+    typer.Argument(help="Alloy file (TOML). Leave out when giving --composition.", show_default=False),
+]
+CompositionOpt = Annotated[
+    Optional[str],
+    typer.Option("--composition", help='Steel heat analysis in mass %, e.g. "C=0.79,Mn=0.76,Si=0.25".'),
+]
+GrainOpt = Annotated[
+    Optional[float],
+    typer.Option("--grain-size", help="ASTM austenite grain size number, with --composition (default 7)."),
+]
+AustenitizingOpt = Annotated[
+    Optional[float],
+    typer.Option("--austenitizing-c", help="Austenitizing temperature, °C, with --composition (warns below Ae3)."),
+]
+MsMethodOpt = Annotated[
+    Optional[str],
+    typer.Option("--ms-method", help="Ms correlation with --composition: andrews_1965, andrews_1965_product or "
+                 "steven_haynes_1956 (default: Andrews linear to 0.6 % C, product form above)."),
+]
+NameOpt = Annotated[
+    Optional[str],
+    typer.Option("--name", help="Name of the heat, with --composition; also names the output files."),
+]
+
+
+@app.command()
+def diagram(
+    alloy_file: AlloyArg = None,
+    composition: CompositionOpt = None,
+    grain_size: GrainOpt = None,
+    austenitizing_c: AustenitizingOpt = None,
+    ms_method: MsMethodOpt = None,
+    name: NameOpt = None,
+    out: Annotated[Path, typer.Option("--out", help="Folder for the figure, CSV and JSON.")] = Path("isokin-out"),
+    fraction: Annotated[
+        Optional[list[float]],
+        typer.Option("--fraction", help="Extra transformed fraction to draw (0-1), repeatable; 0.01, 0.5, 0.99 always."),
+    ] = None,
+    tmin_c: Annotated[Optional[float], typer.Option("--tmin-c", help="Lowest hold temperature, °C.")] = None,
+    tmax_c: Annotated[Optional[float], typer.Option("--tmax-c", help="Highest hold temperature, °C.")] = None,
+    points: Annotated[Optional[int], typer.Option("--points", min=3, max=100_000, help="Hold temperatures in the grid.")] = None,
+    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    overwrite: Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")] = False,
+):
+    """Draw the isothermal diagram (C-curves at 1, 50, 99 % and their noses) and export it.
+
+    Writes <stem>.png (or .svg/.pdf), <stem>-curves.csv and <stem>-summary.json into --out.
+    """
+    from ..compute.grid import alloy_grid, check_fractions, default_fractions
+    from ..compute.ttt import ttt
+
+    try:
+        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        grid = alloy_grid(alloy, tmin_c, tmax_c, points)
+        fr = default_fractions(check_fractions(fraction or [0.5], key="fractions"))
+        paths = _output_paths(out, stem, fmt.value, overwrite)
+    except InputError as exc:
+        fail(exc)
+    _warn(alloy)
+    result = ttt(alloy, temperatures_C=grid - 273.15, fractions=fr)
+
+    import matplotlib
+
+    matplotlib.use("Agg")
+    from ..io.export import write_curves_csv, write_figure, write_summary_json
+    from ..plot.ttt import ttt_figure
+
+    try:
+        write_figure(ttt_figure(result), paths["figure"])
+        write_curves_csv(result, paths["curves"])
+        write_summary_json(result, paths["summary"])
+    except OSError as exc:
+        fail(f"--out: cannot write into {out} ({exc.strerror or exc})")
+    typer.echo(f"{alloy.name}: {alloy.model}")
+    _print_noses(result)
+    for p in paths.values():
+        typer.echo(f"wrote {p}")
+    typer.echo(CAUTION)
+
+
+@app.command()
+def check(
+    alloy_file: AlloyArg = None,
+    composition: CompositionOpt = None,
+    grain_size: GrainOpt = None,
+    austenitizing_c: AustenitizingOpt = None,
+    ms_method: MsMethodOpt = None,
+    name: NameOpt = None,
+):
+    """Validate an alloy and print what follows from it: critical temperatures, nuclei, noses."""
+    from ..compute.ttt import ttt
+
+    try:
+        alloy, _ = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        result = ttt(alloy)
+    except InputError as exc:
+        fail(exc)
+    _warn(alloy)
+    typer.echo(f"{alloy.name}: {alloy.model}; the input is valid")
+    for line, t_k in alloy.critical_K.items():
+        typer.echo(f"  {line:<16}{float(t_k) - 273.15:8.1f} °C   {alloy.critical_methods.get(line, '')}")
+    for product in alloy.products:
+        if hasattr(product, "nucleus_table"):
+            _print_nuclei(product)
+    _print_noses(result)
+    typer.echo(CAUTION)
+
+
+def _print_nuclei(product):
+    rows = product.nucleus_table((10.0, 50.0, 100.0, 200.0))
+    typer.echo(f"  {product.name}: critical nucleus below {float(product.upper_K) - 273.15:.1f} °C")
+    typer.echo(f"    {'undercooling K':>14}  {'r* nm':>9}  {'dG* J':>10}  {'dG*/kT':>8}  {'ln I':>8}")
+    for dt, r, barrier, barrier_kt, log_i in zip(*rows.values()):
+        typer.echo(f"    {dt:>14.0f}  {r * 1e9:>9.3g}  {barrier:>10.3g}  {barrier_kt:>8.3g}  {log_i:>8.3g}")
+
+
+@app.command()
+def version():
+    """Print the isokin version."""
+    typer.echo(__version__)
+
+
+def main():
+    """Entry point: a usage error (unknown option, wrong type, value out of range) ends with one line too."""
+    try:
+        code = app(standalone_mode=False)
+    except Exception as exc:
+        # click-style usage errors, whichever click copy typer carries: exit code 2 and a message
+        if getattr(exc, "exit_code", None) != 2 or not hasattr(exc, "format_message"):
+            raise
+        command = exc.ctx.command_path if getattr(exc, "ctx", None) else "isokin"
+        typer.echo(f"isokin: error: {exc.format_message()} (see: {command} --help)", err=True)
+        sys.exit(2)
+    sys.exit(code if isinstance(code, int) else 0)

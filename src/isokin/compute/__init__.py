@@ -1,0 +1,1 @@
+"""Calculations over grids, no I/O: the isothermal diagram (``ttt``) and its grids (``grid``)."""

@@ -1,0 +1,142 @@
+"""The isothermal diagram: times to each fraction over a temperature grid, and the noses.
+
+Every product is evaluated on the whole grid in one numpy call, whatever its batch; the
+noses of all curves of a product (every batch member, every fraction) are refined together
+by a vectorised golden-section search in ln t.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..constants import celsius_to_kelvin
+from ..errors import InputError
+from ..results import Noses, TTTResult
+from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
+
+#: Each nose temperature is refined to this, K.
+NOSE_TOLERANCE_K = 0.01
+_INVERSE_GOLDEN = (np.sqrt(5.0) - 1.0) / 2.0
+
+
+def product_times(product, temperatures_K, fractions):
+    """Seconds to each fraction on the grid, shape (batch..., F, N); ``inf`` where none forms."""
+    b = len(product.batch_shape)
+    T = np.asarray(temperatures_K, dtype=float).reshape((1,) * b + (1, -1))
+    X = np.asarray(fractions, dtype=float).reshape((1,) * b + (-1, 1))
+    t = np.broadcast_to(product.time_to_fraction(T, X), product.batch_shape + (X.shape[-2], T.shape[-1]))
+    return np.where(t > 0, t, np.inf)  # guards against a model returning 0 or NaN where nothing forms
+
+
+def refine_noses(product, temperatures_K, fractions, times_s) -> Noses:
+    """The nose of every curve of one product, refined to :data:`NOSE_TOLERANCE_K`.
+
+    Starts from each curve's grid minimum and runs a golden-section search in ln t over the
+    two grid steps around it, all curves at once. A minimum on the grid's first or last
+    point, or next to a point where the product does not form, is reported as it is on the
+    grid with ``inside`` False.
+    """
+    grid = np.asarray(temperatures_K, dtype=float)
+    n = grid.size
+    b = len(product.batch_shape)
+    X = np.asarray(fractions, dtype=float).reshape((1,) * b + (-1,))
+    with np.errstate(divide="ignore"):
+        log_t = np.log(times_s)
+    i = np.argmin(log_t, axis=-1)
+    best = np.take_along_axis(log_t, i[..., None], axis=-1)[..., 0]
+    below = np.take_along_axis(log_t, np.maximum(i - 1, 0)[..., None], axis=-1)[..., 0]
+    above = np.take_along_axis(log_t, np.minimum(i + 1, n - 1)[..., None], axis=-1)[..., 0]
+    inside = np.isfinite(best) & (i > 0) & (i < n - 1) & np.isfinite(below) & np.isfinite(above)
+    at_grid = grid[i]
+    a = np.where(inside, grid[np.maximum(i - 1, 0)], at_grid)
+    c = np.where(inside, grid[np.minimum(i + 1, n - 1)], at_grid)
+
+    def f(T):
+        with np.errstate(divide="ignore"):
+            t = product.time_to_fraction(T, X)
+            return np.where(t > 0, np.log(t), np.inf)
+
+    steps = int(np.ceil(np.log(NOSE_TOLERANCE_K / max(float(np.max(c - a)), NOSE_TOLERANCE_K)) / np.log(_INVERSE_GOLDEN)))
+    x1 = c - _INVERSE_GOLDEN * (c - a)
+    x2 = a + _INVERSE_GOLDEN * (c - a)
+    f1, f2 = f(x1), f(x2)
+    for _ in range(steps):
+        left = f1 <= f2  # the minimum lies in [a, x2]
+        a, c = np.where(left, a, x1), np.where(left, x2, c)
+        x_new = np.where(left, c - _INVERSE_GOLDEN * (c - a), a + _INVERSE_GOLDEN * (c - a))
+        f_new = f(x_new)
+        x1, f1, x2, f2 = (np.where(left, x_new, x2), np.where(left, f_new, f2),
+                          np.where(left, x1, x_new), np.where(left, f1, f_new))
+    refined_T = np.where(f1 <= f2, x1, x2)
+    refined = np.minimum(f1, f2)
+    better = inside & (refined < best)
+    return Noses(temperature_K=np.where(better, refined_T, at_grid),
+                 time_s=np.exp(np.where(better, refined, best)),
+                 inside=inside)
+
+
+def solve_ttt(products, temperatures_K, fractions=DEFAULT_FRACTIONS):
+    """Times and noses of each product on a grid: (times dict, noses dict) by product name."""
+    grid = np.asarray(temperatures_K, dtype=float)
+    fr = np.asarray(fractions, dtype=float)
+    times, noses = {}, {}
+    for product in products:
+        t = product_times(product, grid, fr)
+        times[product.name] = t
+        noses[product.name] = refine_noses(product, grid, fr, t)
+    return times, noses
+
+
+def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None) -> TTTResult:
+    """The isothermal (TTT) diagram of an alloy or a batch of alloys.
+
+    Parameters
+    ----------
+    alloy : Alloy
+        From :func:`isokin.load_alloy` or :func:`isokin.steel`; may hold a batch.
+    temperatures_C : array_like, optional
+        Hold temperatures, °C; default the alloy's own range.
+    fractions : sequence of float, optional
+        Transformed fractions of each product's own completion, each in (0, 1).
+    points : int, optional
+        Size of the default grid; default the alloy file's, else 200.
+
+    Returns
+    -------
+    TTTResult
+        Times of shape (batch..., fraction, temperature) and the noses of every curve.
+
+    Examples
+    --------
+    >>> import isokin
+    >>> result = isokin.ttt(isokin.steel({"C": 0.79, "Mn": 0.76}, 6.0), points=60)
+    >>> nose = result.noses["pearlite"]
+    >>> bool(500 < float(nose.temperature_C[0]) < 600), bool(nose.time_s[0] < 5)
+    (True, True)
+    """
+    fr = check_fractions(fractions)
+    if temperatures_C is None:
+        grid = alloy_grid(alloy, points=points)
+    else:
+        grid = np.sort(celsius_to_kelvin(np.asarray(temperatures_C, dtype=float).ravel()))
+        if grid.size < 3 or not np.all(np.isfinite(grid)) or grid[0] <= 0 or np.any(np.diff(grid) <= 0):
+            raise InputError(None, "temperatures_C", "give three or more distinct finite temperatures above -273.15 °C")
+    times, noses = solve_ttt(alloy.products, grid, fr)
+    return TTTResult(
+        alloy=alloy.name,
+        model=alloy.model,
+        temperatures_K=grid,
+        fractions=fr,
+        products=tuple(p.name for p in alloy.products),
+        times_s=times,
+        noses=noses,
+        product_models={p.name: p.model for p in alloy.products},
+        upper_K={p.name: p.upper_K for p in alloy.products},
+        critical_K=dict(alloy.critical_K),
+        critical_methods=dict(alloy.critical_methods),
+        batch_shape=alloy.batch_shape,
+        footer=alloy.footer,
+        warnings=tuple(alloy.warnings),
+        inputs=alloy.inputs,
+        provenance=dict(alloy.provenance),
+    )

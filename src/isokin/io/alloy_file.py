@@ -1,0 +1,74 @@
+"""Reading an alloy file (TOML): the common tables here, each model's tables in its loader.
+
+``[alloy] model`` picks the loader from :data:`MODEL_LOADERS`; a loader is a module with
+``TABLES`` (the top-level tables it reads) and ``load(path, head, data) -> Alloy``.
+"""
+
+from __future__ import annotations
+
+import difflib
+import importlib
+from pathlib import Path
+
+from ..constants import celsius_to_kelvin
+from ..errors import InputError
+from .schema import Key, parse_toml, read_table
+
+#: Model name -> the module that reads its tables.
+MODEL_LOADERS = {
+    "nucleation-growth": "isokin.io.nucleation_growth_file",
+    "steel": "isokin.io.steel_file",
+}
+ALLOY_KEYS = {
+    "name": Key(str, required=True),
+    "model": Key(str, required=True, choices=tuple(MODEL_LOADERS)),
+    "note": Key(str),
+}
+DIAGRAM_KEYS = {
+    "lower_temperature_C": Key(float, low=-273.15, low_open=True, unit="°C"),
+    "upper_temperature_C": Key(float, low=-273.15, low_open=True, unit="°C"),
+    "points": Key(int, low=3, high=100_000),
+}
+COMMON_TABLES = ("alloy", "diagram")
+
+
+def _loaders():
+    return {model: importlib.import_module(name) for model, name in MODEL_LOADERS.items()}
+
+
+def load_alloy(path):
+    """Read an alloy file and build its :class:`~isokin.products.alloy.Alloy`.
+
+    Raises InputError with one line naming the file, the key and what would be right.
+    """
+    path = Path(path)
+    data = parse_toml(path)
+    loaders = _loaders()
+    known = COMMON_TABLES + tuple(t for m in loaders.values() for t in m.TABLES)
+    for name in data:
+        if name not in known:
+            near = difflib.get_close_matches(name, known, n=1, cutoff=0.5)
+            hint = f"did you mean [{near[0]}]?" if near else f"valid tables are {', '.join(known)}"
+            raise InputError(path, name, f"unknown table; {hint}")
+    if "alloy" not in data:
+        raise InputError(path, "alloy", "required table [alloy] is missing")
+    head = read_table(path, "alloy.", data["alloy"], ALLOY_KEYS)
+    diagram = read_table(path, "diagram.", data.get("diagram", {}), DIAGRAM_KEYS)
+    loader = loaders[head["model"]]
+    for model, other in loaders.items():
+        for name in set(other.TABLES) - set(loader.TABLES):
+            if name in data:
+                raise InputError(path, name, f"belongs to model = '{model}'; this alloy is model = '{head['model']}'")
+    alloy = loader.load(path, head, data)
+    return _apply_diagram_range(path, alloy, diagram, data.get("diagram", {}))
+
+
+def _apply_diagram_range(source, alloy, diagram: dict, raw: dict):
+    lo, hi = alloy.default_range_K
+    lo = celsius_to_kelvin(diagram["lower_temperature_C"]) if "lower_temperature_C" in diagram else lo
+    hi = celsius_to_kelvin(diagram["upper_temperature_C"]) if "upper_temperature_C" in diagram else hi
+    if not lo < hi:
+        key = "upper_temperature_C" if "upper_temperature_C" in diagram else "lower_temperature_C"
+        raise InputError(source, f"diagram.{key}", "the diagram's lower temperature must lie below its upper one")
+    return alloy.replace(default_range_K=(lo, hi), inputs={**alloy.inputs, "diagram": dict(raw)},
+                         default_points=diagram.get("points"))

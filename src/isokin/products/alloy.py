@@ -1,0 +1,66 @@
+"""An alloy as every later step sees it: its products, its critical temperatures and its origin."""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass, field
+
+import numpy as np
+
+#: How close to the highest upper temperature the default grid ends, K: the times diverge there.
+UPPER_MARGIN_K = 0.5
+
+
+@dataclass(frozen=True)
+class Alloy:
+    """The products of one parent phase, with the lines a diagram shows.
+
+    Attributes
+    ----------
+    name : str
+        Shown on the figure and in the exports.
+    model : str
+        ``"steel"`` or ``"nucleation-growth"``.
+    products : tuple of Product
+        The products that form in time (see :mod:`isokin.products.base`).
+    critical_K : dict of str to float or ndarray
+        Labelled temperatures, K: an equilibrium temperature, or Ae3, Ae1, Bs, Ms, M50, M90.
+        In a batch, a line that some members lack (Ae3 past the eutectoid) holds NaN there.
+    critical_methods : dict of str to str
+        The method behind each line.
+    default_range_K : (float, float)
+        The hold temperatures a diagram covers unless asked otherwise.
+    martensite : Martensite or None
+        The athermal product below Ms, for steels.
+    default_points : int or None
+        Grid points asked for by the alloy file.
+    inputs : dict
+        The input as read, for the record.
+    footer : str
+        One line on the model and its inputs, for figure footers.
+    warnings : tuple of str
+        Extrapolations and other doubts about this input.
+    provenance : dict
+        Model choices and coefficients used (Ms method, kinetic coefficients), for the record.
+    """
+
+    name: str
+    model: str
+    products: tuple
+    critical_K: dict
+    critical_methods: dict
+    default_range_K: tuple
+    martensite: object = None
+    default_points: int | None = None
+    inputs: dict = field(default_factory=dict)
+    footer: str = ""
+    warnings: tuple = ()
+    provenance: dict = field(default_factory=dict)
+
+    @property
+    def batch_shape(self) -> tuple:
+        """Shape of the batch of parameter sets or compositions; ``()`` for one alloy."""
+        return np.broadcast_shapes(*(p.batch_shape for p in self.products))
+
+    def replace(self, **changes) -> Alloy:
+        return dataclasses.replace(self, **changes)

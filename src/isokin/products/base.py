@@ -1,0 +1,141 @@
+"""The interface every transformation product meets, and the batch rule they share.
+
+A product is anything that can tell, at each temperature, how long an isothermal hold takes
+to reach a transformed fraction and how fast it transforms at a given fraction. The
+classical nucleation-growth model and the empirical steel models both implement it, so the
+solvers, plotting and export never ask which one they hold. Martensite, which forms on
+cooling and not in time, meets the smaller :class:`AthermalProduct`.
+
+Batches
+-------
+A product may hold a batch of parameter sets (compositions, fitted parameters, samples):
+its ``batch_shape`` is then not ``()``, and every parameter is an array of that shape. Its
+methods put the batch axes first: a query (``T_K``, ``X``) of ``q`` dimensions is laid
+out as ``batch_shape + shape[b:]`` when ``q`` exceeds the batch's ``b`` dimensions, so
+
+- ``T_K`` of shape ``(1,) * b + (N,)`` gives results ``batch_shape + (N,)`` (one grid for
+  every member), and
+- ``T_K`` of shape ``batch_shape + (F,)`` gives one temperature per member and point.
+
+A query of ``b`` dimensions or fewer broadcasts against the batch as numpy would.
+"""
+
+from __future__ import annotations
+
+from typing import Protocol, runtime_checkable
+
+import numpy as np
+
+
+def batch_leading(value, batch_ndim: int, query_ndim: int):
+    """``value`` (of batch shape) with trailing unit axes, so that the batch leads a query.
+
+    >>> batch_leading(np.zeros(5), 1, 3).shape
+    (5, 1, 1)
+    >>> batch_leading(np.float64(2.0), 0, 2).shape
+    (1, 1)
+    """
+    value = np.asarray(value)
+    extra = query_ndim - batch_ndim
+    return value.reshape(value.shape + (1,) * extra) if extra > 0 else value
+
+
+def plain(value):
+    """A float for a single parameter set, the array for a batch.
+
+    >>> plain(np.array(3.0)), plain(np.array([1.0, 2.0])).shape
+    (3.0, (2,))
+    """
+    return float(value) if np.ndim(value) == 0 else np.asarray(value)
+
+
+def as_query(*queries):
+    """The query arrays as floats of one number of dimensions (unit axes prepended), and it.
+
+    >>> T, X, q = as_query(900.0, [0.01, 0.5])
+    >>> T.shape, X.shape, q
+    ((1,), (2,), 1)
+    """
+    arrays = [np.asarray(a, dtype=float) for a in queries]
+    q = max(a.ndim for a in arrays)
+    return (*(a.reshape((1,) * (q - a.ndim) + a.shape) for a in arrays), q)
+
+
+@runtime_checkable
+class Product(Protocol):
+    """A product that forms in time at a temperature (ferrite, pearlite, bainite, precipitate, ...).
+
+    Attributes
+    ----------
+    name : str
+        Trade name of the product.
+    model : str
+        Short name of the model and its source, for figure footers and the JSON summary.
+    batch_shape : tuple of int
+        Shape of the batch of parameter sets; ``()`` for one.
+    upper_K : float or ndarray
+        The product cannot form at or above this temperature (equilibrium or start
+        temperature); of batch shape.
+    lower_K : float or ndarray
+        The product is not formed below this temperature (for example Ms); 0 when unbounded.
+    separable : bool
+        True where the time separates as t = F(T) S(X) (then :meth:`time_factor`,
+        :meth:`reaction_term` and :meth:`reaction_term_inverse` give F, S and S^-1).
+    """
+
+    name: str
+    model: str
+
+    @property
+    def batch_shape(self) -> tuple: ...
+
+    @property
+    def upper_K(self) -> float | np.ndarray: ...
+
+    @property
+    def lower_K(self) -> float | np.ndarray: ...
+
+    @property
+    def separable(self) -> bool: ...
+
+    def time_to_fraction(self, T_K, X) -> np.ndarray:
+        """Seconds of isothermal hold at T_K to reach fraction X (0 < X < 1); ``inf`` where
+        the product cannot form. Batch axes lead (see the module docstring)."""
+        ...
+
+    def rate(self, T_K, X) -> np.ndarray:
+        """dX/dt in 1/s at temperature T_K and fraction X; 0 where it cannot form."""
+        ...
+
+    def time_factor(self, T_K) -> np.ndarray:
+        """F(T) in s of t = F(T) S(X); ``inf`` where the product cannot form."""
+        ...
+
+    def reaction_term(self, X) -> np.ndarray:
+        """S(X) of t = F(T) S(X), dimensionless."""
+        ...
+
+    def reaction_term_inverse(self, S) -> np.ndarray:
+        """X at which S(X) reaches S."""
+        ...
+
+
+@runtime_checkable
+class AthermalProduct(Protocol):
+    """A product that forms on cooling below a start temperature, not in time (martensite)."""
+
+    name: str
+    model: str
+
+    @property
+    def upper_K(self) -> float | np.ndarray:
+        """Start temperature (Ms), K."""
+        ...
+
+    def fraction(self, T_K) -> np.ndarray:
+        """Fraction of the parent transformed on reaching T_K from above the start."""
+        ...
+
+    def temperature_for_fraction(self, fraction) -> np.ndarray:
+        """Temperature, K, at which the fraction is reached."""
+        ...

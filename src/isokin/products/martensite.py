@@ -1,0 +1,72 @@
+"""Martensite: an athermal product, formed on cooling below Ms by Koistinen-Marburger."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..relations.steel_critical import (
+    KOISTINEN_MARBURGER_ALPHA_PER_K,
+    martensite_fraction_koistinen_marburger_1959,
+    temperature_for_martensite_fraction_koistinen_marburger_1959,
+)
+from .base import as_query, batch_leading, plain
+
+
+class Martensite:
+    """Athermal martensite below Ms: f = 1 - exp(-alpha (Ms - T)) of the austenite present.
+
+    Parameters
+    ----------
+    ms_K : float or array_like
+        Martensite start temperature, K (one steel or a batch).
+    alpha_per_K : float or array_like, optional
+        Koistinen-Marburger rate constant, 1/K (default 0.011).
+    ms_method : str, optional
+        The correlation that gave Ms, for the record.
+
+    Examples
+    --------
+    >>> m = Martensite(573.15)
+    >>> round(float(m.fraction(473.15)), 4), round(float(m.temperature_for_fraction(0.5)), 2)
+    (0.6671, 510.14)
+    """
+
+    name = "martensite"
+    model = "Koistinen-Marburger (1959), Acta Metall. 7, 59-60"
+
+    def __init__(self, ms_K, alpha_per_K=KOISTINEN_MARBURGER_ALPHA_PER_K, ms_method=""):
+        ms = np.asarray(ms_K, dtype=float)
+        alpha = np.asarray(alpha_per_K, dtype=float)
+        self._batch_shape = np.broadcast_shapes(ms.shape, alpha.shape)
+        self._ms = np.broadcast_to(ms, self._batch_shape)
+        self._alpha = np.broadcast_to(alpha, self._batch_shape)
+        self.ms_method = ms_method
+
+    @property
+    def batch_shape(self):
+        return self._batch_shape
+
+    @property
+    def upper_K(self):
+        """Ms, K."""
+        return plain(self._ms)
+
+    @property
+    def alpha_per_K(self):
+        return plain(self._alpha)
+
+    def _leading(self, q):
+        b = len(self._batch_shape)
+        return batch_leading(self._ms, b, q), batch_leading(self._alpha, b, q)
+
+    def fraction(self, T_K):
+        """Fraction of the austenite present at Ms that is martensite at T_K (batch axes lead)."""
+        T, q = as_query(T_K)
+        ms, alpha = self._leading(q)
+        return martensite_fraction_koistinen_marburger_1959(T, ms, alpha)
+
+    def temperature_for_fraction(self, fraction):
+        """Temperature, K, at which the martensite fraction is reached (batch axes lead)."""
+        f, q = as_query(fraction)
+        ms, alpha = self._leading(q)
+        return temperature_for_martensite_fraction_koistinen_marburger_1959(f, ms, alpha)

@@ -1,0 +1,188 @@
+"""Results as data: arrays, names and provenance, never live models.
+
+A result can be saved, compared, sliced to one batch member and turned into a tidy table
+without the models that computed it.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .constants import kelvin_to_celsius
+
+#: Times beyond this (about 32 years) are reported as "does not form in practice": they are
+#: left out of the curves, the figure and the exports rather than shown as huge numbers.
+PRACTICAL_HORIZON_S = 1.0e9
+
+
+@dataclass(frozen=True)
+class Noses:
+    """The nose of each C-curve: arrays of shape (batch..., fraction).
+
+    ``time_s`` is ``inf`` where the curve does not exist in the range; ``inside`` is False
+    where the minimum lies on a bound of the range, so the true nose is outside it.
+    """
+
+    temperature_K: np.ndarray
+    time_s: np.ndarray
+    inside: np.ndarray
+
+    @property
+    def temperature_C(self):
+        return kelvin_to_celsius(self.temperature_K)
+
+    @property
+    def forms(self):
+        """Where the curve has a nose within the practical horizon."""
+        return np.isfinite(self.time_s) & (self.time_s <= PRACTICAL_HORIZON_S)
+
+    def __getitem__(self, index):
+        return Noses(self.temperature_K[index], self.time_s[index], self.inside[index])
+
+
+@dataclass(frozen=True)
+class TTTResult:
+    """An isothermal diagram: t(X, T) and the noses of every product, for one alloy or a batch.
+
+    Attributes
+    ----------
+    alloy, model : str
+        The alloy's name and model.
+    temperatures_K : ndarray, shape (N,)
+        Hold temperatures, ascending.
+    fractions : ndarray, shape (F,)
+        Transformed fractions of each product's own completion.
+    products : tuple of str
+        Product names, in the alloy's order.
+    times_s : dict of str to ndarray
+        Seconds to each fraction, shape (batch..., F, N); ``inf`` where the product does not
+        form at that temperature.
+    noses : dict of str to Noses
+        Shape (batch..., F).
+    product_models, upper_K : dict
+        Per product: the model's name, and the temperature it forms below (K, batch shape).
+    critical_K, critical_methods : dict
+        Labelled lines (K, batch shape) and their methods.
+    batch_shape : tuple
+    footer : str
+    warnings : tuple of str
+    inputs, provenance : dict
+        The input as read; the model choices and coefficients used.
+    """
+
+    alloy: str
+    model: str
+    temperatures_K: np.ndarray
+    fractions: np.ndarray
+    products: tuple
+    times_s: dict
+    noses: dict
+    product_models: dict
+    upper_K: dict
+    critical_K: dict
+    critical_methods: dict
+    batch_shape: tuple = ()
+    footer: str = ""
+    warnings: tuple = ()
+    inputs: dict = field(default_factory=dict)
+    provenance: dict = field(default_factory=dict)
+
+    @property
+    def temperatures_C(self):
+        return kelvin_to_celsius(self.temperatures_K)
+
+    def practical(self, product):
+        """Mask of the points where the product forms within the practical horizon."""
+        t = self.times_s[product]
+        return np.isfinite(t) & (t <= PRACTICAL_HORIZON_S)
+
+    def member(self, index) -> TTTResult:
+        """The result of one batch member (an int, or a tuple for a batch of several axes)."""
+        if not self.batch_shape:
+            raise ValueError("this result holds a single alloy, not a batch")
+        index = index if isinstance(index, tuple) else (index,)
+        if len(index) != len(self.batch_shape):
+            raise ValueError(f"give one index per batch axis; the batch has shape {self.batch_shape}")
+        pick = lambda a: np.asarray(a)[index] if np.ndim(a) else a  # noqa: E731
+        lines = {k: float(pick(v)) for k, v in self.critical_K.items()}
+        lines = {k: v for k, v in lines.items() if np.isfinite(v)}
+        return TTTResult(
+            alloy=f"{self.alloy} [{', '.join(map(str, index))}]",
+            model=self.model,
+            temperatures_K=self.temperatures_K,
+            fractions=self.fractions,
+            products=self.products,
+            times_s={k: v[index] for k, v in self.times_s.items()},
+            noses={k: v[index] for k, v in self.noses.items()},
+            product_models=self.product_models,
+            upper_K={k: float(pick(v)) for k, v in self.upper_K.items()},
+            critical_K=lines,
+            critical_methods={k: self.critical_methods[k] for k in lines},
+            footer=self.footer,
+            warnings=self.warnings,
+            inputs=self.inputs,
+            provenance=self.provenance,
+        )
+
+    def curve_columns(self) -> dict:
+        """Columns of the tidy curve table (practical times only), as arrays.
+
+        ``member`` (the flat batch index, for a batch), ``product``, ``fraction``,
+        ``temperature_C``, ``time_s``.
+        """
+        members = int(np.prod(self.batch_shape))
+        nf, nt = self.fractions.size, self.temperatures_K.size
+        parts = []
+        for name in self.products:
+            t = self.times_s[name].reshape(members, nf, nt)
+            m, f, k = np.nonzero(self.practical(name).reshape(members, nf, nt))
+            parts.append({"member": m, "product": np.full(m.size, name, dtype=object),
+                          "fraction": self.fractions[f], "temperature_C": self.temperatures_C[k],
+                          "time_s": t[m, f, k]})
+        columns = {key: np.concatenate([p[key] for p in parts]) for key in parts[0]}
+        if not self.batch_shape:
+            del columns["member"]
+        return columns
+
+    def nose_columns(self) -> dict:
+        """Columns of the tidy nose table (curves that form within the practical horizon)."""
+        members = int(np.prod(self.batch_shape))
+        nf = self.fractions.size
+        parts = []
+        for name in self.products:
+            n = self.noses[name]
+            m, f = np.nonzero(n.forms.reshape(members, nf))
+            parts.append({
+                "member": m, "product": np.full(m.size, name, dtype=object), "fraction": self.fractions[f],
+                "nose_temperature_C": n.temperature_C.reshape(members, nf)[m, f],
+                "nose_time_s": n.time_s.reshape(members, nf)[m, f],
+                "nose_inside_range": n.inside.reshape(members, nf)[m, f],
+            })
+        columns = {key: np.concatenate([p[key] for p in parts]) for key in parts[0]}
+        if not self.batch_shape:
+            del columns["member"]
+        return columns
+
+    def to_frame(self):
+        """Tidy pandas table: [member,] product, fraction, temperature_C, time_s."""
+        import pandas as pd
+
+        return pd.DataFrame(self.curve_columns())
+
+    def noses_frame(self):
+        """Tidy pandas table of the noses: [member,] product, fraction, nose_temperature_C,
+        nose_time_s, nose_inside_range."""
+        import pandas as pd
+
+        return pd.DataFrame(self.nose_columns())
+
+    def forming_range_C(self, product, fraction_index):
+        """(lowest, highest) grid temperature in °C where a curve exists (over the whole
+        batch), or None."""
+        ok = self.practical(product)[..., fraction_index, :].reshape(-1, self.temperatures_K.size).any(axis=0)
+        if not ok.any():
+            return None
+        t_c = self.temperatures_C[ok]
+        return float(t_c.min()), float(t_c.max())
