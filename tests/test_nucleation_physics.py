@@ -154,3 +154,15 @@ def test_growth_velocity_vanishes_at_equilibrium_and_has_one_maximum():
     assert u[-1] == 0.0 and np.all(u[:-1] > 0)
     interior_maxima = np.sum((u[1:-1] > u[:-2]) & (u[1:-1] > u[2:]))
     assert interior_maxima == 1
+
+
+def test_constants_are_the_codata_values_scipy_ships():
+    # Reference: scipy.constants (CODATA; k, h, N_A exact since the 2019 SI).
+    from scipy import constants
+
+    from isokin import constants as ours
+
+    assert ours.BOLTZMANN_J_K == constants.k and ours.PLANCK_J_S == constants.h
+    assert ours.AVOGADRO_PER_MOL == constants.N_A
+    assert ours.GAS_CONSTANT_J_MOL_K == pytest.approx(constants.R, rel=1e-15)
+    assert ours.ZERO_CELSIUS_K == constants.zero_Celsius and ours.CALORIE_J == constants.calorie

@@ -12,6 +12,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from isokin.relations.li_reaction import (
+    reaction_integral_inverse,
     reaction_integral,
     reaction_integrand,
     reaction_rate_shape,
@@ -106,3 +107,26 @@ def test_shapes_are_kept_and_scalars_stay_scalars():
 def test_fraction_outside_zero_one_is_refused(bad):
     with pytest.raises(ValueError, match=r"\[0, 1\]"):
         reaction_integral(bad)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.floats(min_value=1e-12, max_value=1.0 - 1e-12))
+def test_inverse_against_brentq(X):
+    # Reference: scipy's brentq on S(y) = s for the distance y = min(X, 1 - X) to the nearer
+    # end (the integrand's symmetry gives the upper half), where a fraction's precision lives.
+    from scipy.optimize import brentq
+
+    S = reaction_integral(X)
+    upper = X > 0.5
+    s_low = reaction_integral(1.0) - S if upper else S
+    y_ref = brentq(lambda y: reaction_integral(y) - s_low, 0.0, 0.5, xtol=1e-300, rtol=1e-15)
+    got = reaction_integral_inverse(S)
+    y = 1.0 - got if upper else got
+    assert y == pytest.approx(y_ref, rel=1e-11, abs=3e-16 if upper else 0.0)
+
+
+def test_inverse_ends_and_refusal():
+    assert reaction_integral_inverse(0.0) == 0.0
+    assert reaction_integral_inverse(reaction_integral(1.0)) == 1.0
+    with pytest.raises(ValueError):
+        reaction_integral_inverse(3.0)

@@ -144,6 +144,12 @@ class NucleationGrowthProduct:
         return SimpleNamespace(**out, upper=batch_leading(self._upper, b, ndim),
                                lower=batch_leading(self._lower, b, ndim))
 
+    @property
+    def exponent(self):
+        """Avrami exponent n: the mode's own (4 or 3) unless a measured one is given."""
+        n = self._fields.get("avrami_exponent", jmak.MODES[self.params.mode][0])
+        return plain(np.broadcast_to(n, self._batch_shape))
+
     def _exponent(self, f):
         n_mode = jmak.MODES[self.params.mode][0]
         return getattr(f, "avrami_exponent", n_mode)
