@@ -17,6 +17,7 @@ from typing import Annotated, Optional
 import typer
 
 from .. import __version__
+from ..constants import kelvin_to_celsius
 from ..errors import InputError
 from ..readout import CAUTION, format_duration
 
@@ -213,7 +214,7 @@ def diagram(
     except InputError as exc:
         fail(exc)
     _warn(alloy)
-    result = ttt(alloy, temperatures_C=grid - 273.15, fractions=fr)
+    result = ttt(alloy, temperatures_C=kelvin_to_celsius(grid), fractions=fr)
 
     import matplotlib
 
@@ -245,6 +246,7 @@ def check(
 ):
     """Validate an alloy and print what follows from it: critical temperatures, nuclei, noses."""
     from ..compute.ttt import ttt
+    from ..products.base import ReportsNucleus
 
     try:
         alloy, _ = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
@@ -254,9 +256,9 @@ def check(
     _warn(alloy)
     typer.echo(f"{alloy.name}: {alloy.model}; the input is valid")
     for line, t_k in alloy.critical_K.items():
-        typer.echo(f"  {line:<16}{float(t_k) - 273.15:8.1f} °C   {alloy.critical_methods.get(line, '')}")
+        typer.echo(f"  {line:<16}{kelvin_to_celsius(float(t_k)):8.1f} °C   {alloy.critical_methods.get(line, '')}")
     for product in alloy.products:
-        if hasattr(product, "nucleus_table"):
+        if isinstance(product, ReportsNucleus):
             _print_nuclei(product)
     _print_noses(result)
     typer.echo(CAUTION)
@@ -264,7 +266,7 @@ def check(
 
 def _print_nuclei(product):
     rows = product.nucleus_table((10.0, 50.0, 100.0, 200.0))
-    typer.echo(f"  {product.name}: critical nucleus below {float(product.upper_K) - 273.15:.1f} °C")
+    typer.echo(f"  {product.name}: critical nucleus below {kelvin_to_celsius(float(product.upper_K)):.1f} °C")
     typer.echo(f"    {'undercooling K':>14}  {'r* nm':>9}  {'dG* J':>10}  {'dG*/kT':>8}  {'ln I':>8}")
     for dt, r, barrier, barrier_kt, log_i in zip(*rows.values()):
         typer.echo(f"    {dt:>14.0f}  {r * 1e9:>9.3g}  {barrier:>10.3g}  {barrier_kt:>8.3g}  {log_i:>8.3g}")

@@ -139,3 +139,14 @@ class AthermalProduct(Protocol):
     def temperature_for_fraction(self, fraction) -> np.ndarray:
         """Temperature, K, at which the fraction is reached."""
         ...
+
+
+@runtime_checkable
+class ReportsNucleus(Protocol):
+    """A product of classical nucleation that can tabulate its critical nucleus."""
+
+    name: str
+
+    def nucleus_table(self, undercoolings_K) -> dict:
+        """Undercooling (K), r* (m), dG* (J), dG*/kT and ln I at undercoolings below its upper temperature."""
+        ...
