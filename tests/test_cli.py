@@ -80,7 +80,7 @@ BAD_FILES = {
     "missing key": (GOOD.replace("interface_energy_J_m2 = 0.10", ""), "interface_energy_J_m2: required key is missing"),
     "wrong type": (GOOD.replace("interface_energy_J_m2 = 0.10", 'interface_energy_J_m2 = "high"'), "must be a number"),
     "negative energy": (GOOD.replace("latent_heat_J_mol = 10.0e3", "latent_heat_J_mol = -10.0e3"), "must be > 0"),
-    "zero energy": (GOOD.replace("interface_energy_J_m2 = 0.10", "interface_energy_J_m2 = 0.0"), "must be > 0"),
+    "zero energy": (GOOD.replace("interface_energy_J_m2 = 0.10", "interface_energy_J_m2 = 0.0"), "must be >= 0.001"),
     "unknown key": (GOOD.replace("interface_energy_J_m2 =", "interface_energy ="), "did you mean 'interface_energy_J_m2'"),
     "unknown mode": (GOOD.replace('mode = "continuous"', 'mode = "burst"'), "must be one of"),
     "inverted bounds": (GOOD.replace("lower_temperature_C = 150.0", "lower_temperature_C = 600.0"), "must lie below"),
@@ -141,7 +141,7 @@ def test_console_script_runs_as_installed(tmp_path):
     assert bad.returncode == 2 and "Traceback" not in bad.stderr and len(bad.stderr.strip().splitlines()) == 1
 
 
-@pytest.mark.parametrize("args", [["diagram", "--points", "2"], ["diagram", "--format", "gif"], ["frobnicate"],
+@pytest.mark.parametrize("args", [["diagram", "--points", "two"], ["diagram", "--format", "gif"], ["frobnicate"],
                                   ["diagram", "--tmin-c", "abc"]])
 def test_usage_errors_are_one_line_too(args, tmp_path):
     proc = subprocess.run([sys.executable, "-m", "isokin", *args], capture_output=True, text=True, cwd=tmp_path)

@@ -119,7 +119,7 @@ def test_grain_size_outside_the_astm_scale(grain):
 STEEL_TEXT = (ROOT / "alloys" / "aisi-4140-crmo.toml").read_text()
 BAD_STEEL_FILES = {
     "negative content": (STEEL_TEXT.replace("Mn = 0.875", "Mn = -0.875"), "composition.Mn"),
-    "unknown element": (STEEL_TEXT.replace("Mo = 0.20", "Mb = 0.20"), "did you mean 'Mo'"),
+    "unknown element": (STEEL_TEXT.replace("Mo = 0.20", "Mo2 = 0.20"), "did you mean 'Mo'"),
     "grain size above 14": (STEEL_TEXT.replace("grain_size_astm = 7.0", "grain_size_astm = 16.0"), "grain_size_astm"),
     "grain size missing": (STEEL_TEXT.replace("grain_size_astm = 7.0", ""), "grain_size_astm: required"),
     "no iron": (STEEL_TEXT.replace("Cr = 0.95", "Cr = 99.0"), "iron"),

@@ -1,5 +1,19 @@
 """The error a user sees: one line naming the file, the key, what is wrong and what is right."""
 
+import re
+
+#: Control characters (newlines included) never reach the terminal raw: a message stays one line.
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f\u2028\u2029]")
+
+
+def one_line(text) -> str:
+    """``text`` with control characters written as escapes, so that it prints as one line.
+
+    >>> one_line("a\\nb")
+    'a\\\\nb'
+    """
+    return _CONTROL.sub(lambda m: m.group().encode("unicode_escape").decode("ascii"), str(text))
+
 
 class InputError(Exception):
     """Bad input from the user: shown as one line, exit code 2.
@@ -13,7 +27,7 @@ class InputError(Exception):
         self.source, self.key, self.problem = source, key, problem
         where = f"{source}: " if source else ""
         at = f"{key}: " if key else ""
-        super().__init__(f"{where}{at}{problem}")
+        super().__init__(one_line(f"{where}{at}{problem}"))
 
     def relocated(self, source=None, keys=None):
         """The same error, from ``source`` and with the key renamed through ``keys``."""

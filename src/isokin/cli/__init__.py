@@ -55,16 +55,34 @@ def fail(error):
     raise typer.Exit(2)
 
 
+def _decimal(text: str) -> float:
+    """Option values: plain decimal numbers only (not 0_4, infinity, nan or other scripts' digits)."""
+    from ..io.schema import parse_number
+
+    value = parse_number(text)
+    if value is None:
+        raise typer.BadParameter(f"must be a plain finite decimal number such as 0.5 or 850, got {text!r}")
+    return value
+
+
+def _whole(text: str) -> int:
+    from ..io.schema import parse_number
+
+    value = parse_number(text, integer=True)
+    if value is None:
+        raise typer.BadParameter(f"must be a whole number such as 200, got {text!r}")
+    return value
+
+
 def parse_inline_composition(text: str) -> dict:
     """'C=0.79,Mn=0.76' -> {'C': 0.79, 'Mn': 0.76}; raises InputError on a malformed entry."""
     out = {}
+    from ..io.schema import parse_number
+
     for item in filter(None, (s.strip() for s in text.replace(";", ",").split(","))):
         symbol, sep, value = item.partition("=")
         symbol = symbol.strip()
-        try:
-            number = float(value)
-        except ValueError:
-            number = None
+        number = parse_number(value)
         if not sep or not symbol or number is None:
             raise InputError(None, "--composition", f"'{item}' is not of the form Element=mass%, e.g. C=0.79")
         if symbol in out:
@@ -163,11 +181,11 @@ CompositionOpt = Annotated[
 ]
 GrainOpt = Annotated[
     Optional[float],
-    typer.Option("--grain-size", help="ASTM austenite grain size number, with --composition (default 7)."),
+    typer.Option("--grain-size", parser=_decimal, metavar="NUMBER", help="ASTM austenite grain size number, with --composition (default 7)."),
 ]
 AustenitizingOpt = Annotated[
     Optional[float],
-    typer.Option("--austenitizing-c", help="Austenitizing temperature, °C, with --composition (warns below Ae3)."),
+    typer.Option("--austenitizing-c", parser=_decimal, metavar="NUMBER", help="Austenitizing temperature, °C, with --composition (warns below Ae3)."),
 ]
 MsMethodOpt = Annotated[
     Optional[str],
@@ -191,11 +209,14 @@ def diagram(
     out: Annotated[Path, typer.Option("--out", help="Folder for the figure, CSV and JSON.")] = Path("isokin-out"),
     fraction: Annotated[
         Optional[list[float]],
-        typer.Option("--fraction", help="Extra transformed fraction to draw (0-1), repeatable; 0.01, 0.5, 0.99 always."),
+        typer.Option("--fraction", parser=_decimal, metavar="NUMBER", help="Extra transformed fraction to draw (0-1), repeatable; 0.01, 0.5, 0.99 always."),
     ] = None,
-    tmin_c: Annotated[Optional[float], typer.Option("--tmin-c", help="Lowest hold temperature, °C.")] = None,
-    tmax_c: Annotated[Optional[float], typer.Option("--tmax-c", help="Highest hold temperature, °C.")] = None,
-    points: Annotated[Optional[int], typer.Option("--points", min=3, max=100_000, help="Hold temperatures in the grid.")] = None,
+    tmin_c: Annotated[Optional[float], typer.Option("--tmin-c", parser=_decimal, metavar="NUMBER",
+                                                    help="Lowest hold temperature, °C.")] = None,
+    tmax_c: Annotated[Optional[float], typer.Option("--tmax-c", parser=_decimal, metavar="NUMBER",
+                                                    help="Highest hold temperature, °C.")] = None,
+    points: Annotated[Optional[int], typer.Option("--points", parser=_whole, metavar="N",
+                                                  help="Hold temperatures in the grid (3 to 20,000).")] = None,
     fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
     overwrite: Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")] = False,
 ):

@@ -12,7 +12,7 @@ from pathlib import Path
 
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
-from .schema import Key, parse_toml, read_table
+from .schema import NOTE_LIMIT, Key, parse_toml, read_table
 
 #: Model name -> the module that reads its tables.
 MODEL_LOADERS = {
@@ -22,7 +22,7 @@ MODEL_LOADERS = {
 ALLOY_KEYS = {
     "name": Key(str, required=True),
     "model": Key(str, required=True, choices=tuple(MODEL_LOADERS)),
-    "note": Key(str),
+    "note": Key(str, limit=NOTE_LIMIT),
 }
 DIAGRAM_KEYS = {
     "lower_temperature_C": Key(float, low=-273.15, low_open=True, unit="°C"),

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from ..constants import celsius_to_kelvin
+from ..constants import AVOGADRO_PER_MOL, celsius_to_kelvin
 from ..errors import InputError
 from ..products.nucleation_growth import (
     DRIVING_FORCE_FORMS,
@@ -18,25 +18,28 @@ from .tables import read_driving_force_table
 
 TABLES = ("product",)
 
+#: Each physical key with a plausible range for metals (common practice, no single source):
+#: outside it a value is a typing slip, not an alloy, and is refused before it reaches the
+#: physics (a diffusion distance of 1e-300 m would give times of 1e-219 s).
 PRODUCT_KEYS = {
     "name": Key(str, required=True),
     "driving_force": Key(str, choices=DRIVING_FORCE_FORMS),
-    "equilibrium_temperature_C": Key(float, low=-273.15, low_open=True, unit="°C"),
-    "latent_heat_J_mol": Key(float, low=0.0, low_open=True, unit="J/mol"),
-    "driving_force_table": Key(str),
-    "molar_volume_m3_mol": Key(float, required=True, low=0.0, low_open=True, high=1e-3, unit="m^3/mol"),
-    "strain_energy_J_m3": Key(float, low=0.0, unit="J/m^3"),
-    "interface_energy_J_m2": Key(float, required=True, low=0.0, low_open=True, high=10.0, unit="J/m^2"),
+    "equilibrium_temperature_C": Key(float, low=-273.15, low_open=True, high=4000.0, unit="°C"),
+    "latent_heat_J_mol": Key(float, low=0.0, low_open=True, high=1e6, unit="J/mol"),
+    "driving_force_table": Key(str, limit=1000),
+    "molar_volume_m3_mol": Key(float, required=True, low=1e-6, high=1e-4, unit="m^3/mol"),
+    "strain_energy_J_m3": Key(float, low=0.0, high=1e10, unit="J/m^3"),
+    "interface_energy_J_m2": Key(float, required=True, low=1e-3, high=5.0, unit="J/m^2"),
     "wetting_angle_deg": Key(float, low=0.0, low_open=True, high=180.0, unit="degrees"),
-    "site_density_m3": Key(float, low=0.0, low_open=True, unit="1/m^3"),
-    "nucleation_activation_J_mol": Key(float, required=True, low=0.0, unit="J/mol"),
-    "diffusion_prefactor_m2_s": Key(float, required=True, low=0.0, low_open=True, unit="m^2/s"),
-    "diffusion_activation_J_mol": Key(float, required=True, low=0.0, unit="J/mol"),
-    "diffusion_distance_m": Key(float, required=True, low=0.0, low_open=True, high=1e-3, unit="m"),
+    "site_density_m3": Key(float, low=1e6, unit="1/m^3"),
+    "nucleation_activation_J_mol": Key(float, required=True, low=0.0, high=1e6, unit="J/mol"),
+    "diffusion_prefactor_m2_s": Key(float, required=True, low=1e-12, high=0.1, unit="m^2/s"),
+    "diffusion_activation_J_mol": Key(float, required=True, low=0.0, high=1e6, unit="J/mol"),
+    "diffusion_distance_m": Key(float, required=True, low=1e-11, high=1e-3, unit="m"),
     "mode": Key(str, choices=tuple(MODES)),
     "avrami_exponent": Key(float, low=0.5, high=4.0, unit=""),
-    "incubation_time_s": Key(float, low=0.0, unit="s"),
-    "lower_temperature_C": Key(float, low=-273.15, unit="°C"),
+    "incubation_time_s": Key(float, low=0.0, high=1e9, unit="s"),
+    "lower_temperature_C": Key(float, low=-273.15, high=4000.0, unit="°C"),
 }
 
 def _product_from_table(source: Path, index: int, table) -> NucleationGrowthProduct:
@@ -58,6 +61,10 @@ def _product_from_table(source: Path, index: int, table) -> NucleationGrowthProd
         avrami_exponent=v.get("avrami_exponent"),
         incubation_time_s=v.get("incubation_time_s", 0.0),
     )
+    if "site_density_m3" in v and v["site_density_m3"] > AVOGADRO_PER_MOL / v["molar_volume_m3_mol"]:
+        raise InputError(source, where + "site_density_m3",
+                         f"exceeds one site per atom ({AVOGADRO_PER_MOL / v['molar_volume_m3_mol']:.3g} /m^3 for this "
+                         "molar volume); leave it out for homogeneous nucleation")
     if form == "table":
         for name in ("equilibrium_temperature_C", "latent_heat_J_mol"):
             if name in v:
@@ -77,8 +84,15 @@ def _product_from_table(source: Path, index: int, table) -> NucleationGrowthProd
         v["name"], NucleationGrowthParameters(**params), celsius_to_kelvin(v.get("lower_temperature_C", -273.15))
     )
     upper = float(product.upper_K)
-    if upper <= product.lower_K or upper <= 0:
-        raise InputError(source, where + "strain_energy_J_m3", "leaves no temperature with a net driving force; lower it")
+    if upper <= 0:
+        if v.get("strain_energy_J_m3", 0.0) > 0:
+            raise InputError(source, where + "strain_energy_J_m3", "leaves no temperature with a net driving force; lower it")
+        raise InputError(source, where + "driving_force_table", "has no temperature where dGm_J_mol is negative, so "
+                         "the product never forms; dGm is negative where the product is favoured")
+    if upper <= product.lower_K:
+        key = "lower_temperature_C" if "lower_temperature_C" in v else "strain_energy_J_m3"
+        raise InputError(source, where + key, f"leaves no temperature where the product can form: its upper "
+                         f"temperature is {upper - 273.15:.1f} °C; the lower bound must lie below it")
     return product
 
 

@@ -1,14 +1,88 @@
-"""The alloy-file schema: typed keys with ranges, checked once so the physics never sees a bad value."""
+"""Checking input values, once, so the physics never sees a bad one.
+
+One path per kind of value: numbers written as text (:func:`parse_number`, for options,
+inline analyses and table cells), names (:func:`check_text`), files (:func:`read_input_file`),
+and typed TOML keys with ranges (:class:`Key`, :func:`read_table`).
+"""
 
 from __future__ import annotations
 
 import difflib
 import math
+import os
+import re
+import stat
 import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
 from ..errors import InputError
+
+#: A plain decimal number: ASCII digits, optional sign, point and exponent; no underscores,
+#: no "inf" or "nan", no other scripts' digits.
+_DECIMAL = re.compile(r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?", re.ASCII)
+_INTEGER = re.compile(r"[+-]?[0-9]+", re.ASCII)
+#: Longest name (alloy, product) and note, in characters.
+NAME_LIMIT = 120
+NOTE_LIMIT = 2000
+#: Largest alloy file and data table read, bytes: far above any real one.
+FILE_LIMIT_BYTES = 1_000_000
+_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f\u2028\u2029]")
+
+
+def parse_number(text: str, integer: bool = False):
+    """A finite plain decimal number from text, or None.
+
+    >>> parse_number(" 0.79 "), parse_number("1e-3"), parse_number("0_4"), parse_number("inf"), parse_number("1e999")
+    (0.79, 0.001, None, None, None)
+    >>> parse_number("12", integer=True), parse_number("1.5", integer=True)
+    (12, None)
+    """
+    text = text.strip(" \t")
+    if not (_INTEGER if integer else _DECIMAL).fullmatch(text):
+        return None
+    if integer:
+        return int(text)
+    value = float(text)
+    return value if math.isfinite(value) else None
+
+
+def check_text(source, key, value, limit=NAME_LIMIT):
+    """A name or note: non-empty text of at most ``limit`` characters on one line."""
+    if not isinstance(value, str) or not value.strip():
+        raise InputError(source, key, f"must be a non-empty text, got {value!r}")
+    if _CONTROL.search(value):
+        raise InputError(source, key, "must be one line of text without control characters")
+    if len(value) > limit:
+        raise InputError(source, key, f"must be at most {limit} characters, got {len(value)}")
+    return value
+
+
+def read_input_file(source, key, path: Path, what="file") -> str:
+    """The text of a regular local file of at most :data:`FILE_LIMIT_BYTES`, as UTF-8.
+
+    Devices, pipes and folders are refused (they may never end), and so is anything that
+    names a URL: input is read from local files only.
+    """
+    text = str(path)
+    if "://" in text:
+        raise InputError(source, key, f"{what} {text} looks like a URL; give a local file")
+    try:
+        info = os.stat(path)
+    except FileNotFoundError:
+        raise InputError(source, key, f"{what} {text} does not exist" if key else "no such file") from None
+    except OSError as exc:
+        raise InputError(source, key, f"{what} {text} cannot be read ({exc.__class__.__name__})") from None
+    if not stat.S_ISREG(info.st_mode):
+        raise InputError(source, key, f"{what} {text} is not a regular file")
+    if info.st_size > FILE_LIMIT_BYTES:
+        raise InputError(source, key, f"{what} {text} is {info.st_size} bytes; the limit is {FILE_LIMIT_BYTES}")
+    try:
+        with open(path, "rb") as handle:
+            data = handle.read(FILE_LIMIT_BYTES + 1)
+        return data.decode("utf-8")
+    except (OSError, UnicodeDecodeError) as exc:
+        raise InputError(source, key, f"{what} {text} cannot be read ({exc.__class__.__name__})") from None
 
 
 @dataclass(frozen=True)
@@ -22,6 +96,7 @@ class Key:
     low_open: bool = False  # True: the value must be strictly greater than low
     choices: tuple = ()
     unit: str = ""
+    limit: int = NAME_LIMIT  # longest text, characters
 
 
 def _check_value(source, where, name, key: Key, value):
@@ -36,8 +111,7 @@ def _check_value(source, where, name, key: Key, value):
         if isinstance(value, bool) or not isinstance(value, int):
             raise InputError(source, label, f"must be a whole number, got {value!r}")
     elif key.kind is str:
-        if not isinstance(value, str) or not value.strip():
-            raise InputError(source, label, f"must be a non-empty text, got {value!r}")
+        check_text(source, label, value, key.limit)
     if key.choices and value not in key.choices:
         raise InputError(source, label, f"must be one of {', '.join(map(repr, key.choices))}, got {value!r}")
     unit = f" {key.unit}" if key.unit else ""
@@ -68,13 +142,11 @@ def read_table(source, where, table, schema: dict):
 
 
 def parse_toml(path: Path):
-    try:
-        text = path.read_text(encoding="utf-8")
-    except FileNotFoundError:
-        raise InputError(path, None, "no such file") from None
-    except (OSError, UnicodeDecodeError) as exc:
-        raise InputError(path, None, f"cannot be read ({exc.__class__.__name__})") from None
+    """The tables of a TOML alloy file; InputError with one line for any failure."""
+    text = read_input_file(path, None, path, "alloy file")
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise InputError(path, None, f"is not valid TOML ({exc})") from None
+    except RecursionError:
+        raise InputError(path, None, "is nested too deeply to be an alloy file") from None

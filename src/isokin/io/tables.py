@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import csv
-import math
+import io
 from pathlib import Path
 
 import numpy as np
@@ -11,35 +11,41 @@ import numpy as np
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..relations.driving_force import DrivingForceTable
+from .schema import parse_number, read_input_file
 
 DRIVING_FORCE_COLUMNS = ("temperature_C", "dGm_J_mol")
+#: Plausible bounds of a table row: above absolute zero and below any metal's boiling point;
+#: molar driving forces of solid-state and melting reactions stay far below 1 MJ/mol.
+TEMPERATURE_RANGE_C = (-273.15, 5000.0)
+DGM_LIMIT_J_MOL = 1.0e6
 
 
 def read_driving_force_table(source, where, path: Path) -> DrivingForceTable:
     """A CSV with columns temperature_C, dGm_J_mol (others ignored) as a DrivingForceTable."""
     need = DRIVING_FORCE_COLUMNS
+    text = read_input_file(source, where, path, "table file")
     try:
-        with open(path, newline="", encoding="utf-8") as handle:
-            rows = list(csv.reader(handle))
-    except FileNotFoundError:
-        raise InputError(source, where, f"table file {path} does not exist") from None
-    except (OSError, UnicodeDecodeError, csv.Error) as exc:
-        raise InputError(source, where, f"table file {path} cannot be read as CSV ({exc.__class__.__name__})") from None
+        rows = list(csv.reader(io.StringIO(text, newline="")))
+    except csv.Error as exc:
+        raise InputError(source, where, f"table file {path} cannot be read as CSV ({exc})") from None
     header = [h.strip() for h in rows[0]] if rows else []
     missing = [c for c in need if c not in header]
     if missing:
         raise InputError(source, where, f"table file {path} needs the columns {', '.join(need)}; missing {', '.join(missing)}")
     columns = [header.index(c) for c in need]
     values = []
-    for row in rows[1:]:
+    for line, row in enumerate(rows[1:], start=2):
         if not any(cell.strip() for cell in row):
             continue
-        try:
-            numbers = [float(row[j]) for j in columns]
-        except (ValueError, IndexError):
-            numbers = None
-        if numbers is None or not all(math.isfinite(v) for v in numbers):
-            raise InputError(source, where, f"table file {path} needs at least two rows of numbers in {', '.join(need)}")
+        numbers = [parse_number(row[j]) if j < len(row) else None for j in columns]
+        if None in numbers:
+            raise InputError(source, where, f"table file {path}, line {line}: {', '.join(need)} must be "
+                             "plain finite decimal numbers")
+        t_c, g = numbers
+        if not (TEMPERATURE_RANGE_C[0] < t_c <= TEMPERATURE_RANGE_C[1] and abs(g) <= DGM_LIMIT_J_MOL):
+            raise InputError(source, where, f"table file {path}, line {line}: temperature_C must lie above "
+                             f"{TEMPERATURE_RANGE_C[0]:g} and at most {TEMPERATURE_RANGE_C[1]:g}, and |dGm_J_mol| "
+                             f"at most {DGM_LIMIT_J_MOL:g}")
         values.append(numbers)
     if len(values) < 2:
         raise InputError(source, where, f"table file {path} needs at least two rows of numbers in {', '.join(need)}")

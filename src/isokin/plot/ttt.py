@@ -24,6 +24,11 @@ LINE_STYLE = {"color": "#555555", "linewidth": 0.8, "linestyle": (0, (8, 3))}
 TIME_MARKS_S = {"1 min": 60.0, "1 h": 3600.0, "1 day": 86400.0, "1 week": 604800.0}
 
 
+def literal(text: str) -> str:
+    """Input text as plain text on a figure: a ``$`` is a dollar sign, never maths."""
+    return text.replace("$", r"\$")
+
+
 def plot_ttt(result: TTTResult, ax=None):
     """Draw the C-curves, their noses and the critical lines of one alloy into ``ax``.
 
@@ -53,7 +58,7 @@ def plot_ttt(result: TTTResult, ax=None):
             times = np.where(ok[k], result.times_s[name][k], np.nan)
             shown_times.append(times[ok[k]])
             style = FRACTION_STYLES.get(round(float(x), 6), OTHER_FRACTION_STYLE)
-            ax.plot(times, t_c, color=colour, linestyle=style, linewidth=1.6, label=f"{name} {x * 100:g} %")
+            ax.plot(times, t_c, color=colour, linestyle=style, linewidth=1.6, label=f"{literal(name)} {x * 100:g} %")
     if not shown_times:
         ax.text(0.5, 0.5, "no product forms within the practical horizon in this range",
                 transform=ax.transAxes, ha="center")
@@ -78,11 +83,11 @@ def plot_ttt(result: TTTResult, ax=None):
     for name, t_k in result.critical_K.items():
         y = float(kelvin_to_celsius(t_k))
         ax.axhline(y, **LINE_STYLE, zorder=1)
-        ax.text(0.995, y, f"{name} {y:.0f} °C", transform=ax.get_yaxis_transform(), va="bottom", ha="right",
+        ax.text(0.995, y, f"{literal(name)} {y:.0f} °C", transform=ax.get_yaxis_transform(), va="bottom", ha="right",
                 fontsize=7.5, color="#333333")
     ax.set_xlabel("hold time, s (log scale)")
     ax.set_ylabel("hold temperature, °C")
-    ax.set_title(f"Isothermal transformation: {result.alloy}", fontsize=11, loc="left")
+    ax.set_title(f"Isothermal transformation: {literal(result.alloy)}", fontsize=11, loc="left")
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
     ax.legend(loc="best", fontsize=7.5, frameon=True, framealpha=0.92, ncols=1 if len(result.products) < 2 else 2)
     return ax
@@ -96,7 +101,7 @@ def ttt_figure(result: TTTResult, footer_extra=""):
     if result.warnings:
         footer += (f"\n{len(result.warnings)} warning(s) for this input, such as a composition outside a model's "
                    "calibrated range: see the summary JSON.")
-    fig.text(0.01, 0.005, f"{footer}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
+    fig.text(0.01, 0.005, f"{literal(footer)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
     fig.get_layout_engine().set(rect=(0, 0.065, 1, 0.935))
     return fig
@@ -105,8 +110,9 @@ def ttt_figure(result: TTTResult, footer_extra=""):
 def _nose_labels(result: TTTResult):
     """One label per product nose: (product index, temperature °C, text, [(fraction, T °C, t s)])."""
     labels = []
-    for i, name in enumerate(result.products):
-        n = result.noses[name]
+    for i, product in enumerate(result.products):
+        n = result.noses[product]
+        name = literal(product)
         keep = n.inside & n.forms
         noses = [(float(x), float(T), float(t)) for x, T, t in
                  zip(result.fractions[keep], n.temperature_C[keep], n.time_s[keep])]

@@ -113,7 +113,8 @@ class NucleationGrowthProduct:
 
     @property
     def upper_K(self):
-        """Temperature where the driving force, net of strain energy, reaches zero."""
+        """Temperature where the driving force, net of strain energy, reaches zero; 0 K where
+        no temperature has a net driving force."""
         return plain(self._upper)
 
     @property
@@ -129,13 +130,19 @@ class NucleationGrowthProduct:
         p, f = self.params, self._fields
         strain_J_mol = f["strain_energy_J_m3"] * f["molar_volume_m3_mol"]
         if p.driving_force == "table":
-            return np.vectorize(p.table.crossing_K, otypes=[float])(strain_J_mol)
+            # 0 K where dGm + strain is negative nowhere in the table: no net driving force
+            crossing = np.vectorize(p.table.crossing_K, otypes=[float])(strain_J_mol)
+            favoured = np.vectorize(lambda s: bool(np.any(p.table.dGm_J_mol + s < 0)), otypes=[bool])(strain_J_mol)
+            return np.where(favoured, crossing, 0.0)
         te = f["equilibrium_K"]
         ratio = strain_J_mol / f["latent_heat_J_mol"]  # Gs / dHv
         if p.driving_force == "turnbull":
             return te * (1.0 - ratio)
-        # Hoffman: dHv (Te - T) T / Te^2 = Gs, upper root of the quadratic in T
-        return te * (1.0 + np.sqrt(np.maximum(1.0 - 4.0 * ratio, 0.0))) / 2.0
+        # Hoffman: dHv (Te - T) T / Te^2 = Gs, upper root of the quadratic in T; the chemical
+        # term peaks at dHv / 4 (T = Te / 2), so past that no temperature has a net driving
+        # force (0 K).
+        disc = 1.0 - 4.0 * ratio
+        return np.where(disc >= 0.0, te * (1.0 + np.sqrt(np.maximum(disc, 0.0))) / 2.0, 0.0)
 
     def _leading(self, ndim):
         """The numeric fields, with the batch leading a query of ``ndim`` dimensions."""

@@ -53,6 +53,16 @@ MS_METHODS = {
 #: With no ms_method given, Andrews' linear form up to this carbon (mass %, the end of its
 #: data set) and his product form above, which holds up better at high carbon.
 LINEAR_MS_CARBON_LIMIT = 0.6
+#: Andrews' product-form Ms is a parabola in carbon with its minimum near 453 / (2 x 217) %.
+ANDREWS_PRODUCT_MS_TURN_C = 1.0
+#: Carbon above this (mass %) is cast iron, not steel: the eutectic point of Fe-C.
+MAX_STEEL_CARBON = 2.1
+#: Critical temperatures at or above this, °C, lie above the solidus of steels.
+HIGHEST_CRITICAL_C = 1400.0
+#: Elements the Li et al. (1998) kinetics reads; the others move at most the critical
+#: temperatures (Andrews' Ae1/Ae3 read V, W, Cu, Al, P, As, Ti) or nothing at all.
+LI1998_ELEMENTS = ("C", "Mn", "Si", "Ni", "Cr", "Mo")
+CRITICAL_ONLY_ELEMENTS = ("V", "W", "Cu", "Al", "P", "As", "Ti")
 #: The keys of a kinetics override, per product; activation energy in either unit.
 KINETIC_KEYS = ("constant", "undercooling_exponent", "activation_energy_cal_mol", "activation_energy_J_mol",
                 "grain_size_coefficient")
@@ -71,21 +81,87 @@ def _plain(value):
 
 
 def _ms(composition: Composition, ms_method: str | None):
-    """Ms (K), its label, the name of the method and the calibrated-range keys it used."""
+    """The Ms correlation to use: (function of a composition, label, method name, range keys)."""
     if ms_method is not None:
         function, label, ranges = MS_METHODS[ms_method]
-        return function(composition), label, ms_method, [ranges]
+        return function, label, ms_method, [ranges]
     high = composition.C > LINEAR_MS_CARBON_LIMIT
     linear = MS_METHODS["andrews_1965"]
     product = MS_METHODS["andrews_1965_product"]
     if not np.any(high):
-        return linear[0](composition), linear[1], "andrews_1965", [linear[2]]
+        return linear[0], linear[1], "andrews_1965", [linear[2]]
     if np.all(high):
-        return (product[0](composition), f"{product[1]} (chosen above {LINEAR_MS_CARBON_LIMIT:g} % C)",
-                "andrews_1965_product", [product[2]])
-    ms = np.where(high, product[0](composition), linear[0](composition))
-    return (ms, f"Andrews (1965): linear up to {LINEAR_MS_CARBON_LIMIT:g} % C, product form above",
+        return (product[0], f"{product[1]} (chosen above {LINEAR_MS_CARBON_LIMIT:g} % C)", "andrews_1965_product",
+                [product[2]])
+
+    def by_carbon(c):
+        return np.where(c.C > LINEAR_MS_CARBON_LIMIT, product[0](c), linear[0](c))
+
+    return (by_carbon, f"Andrews (1965): linear up to {LINEAR_MS_CARBON_LIMIT:g} % C, product form above",
             "andrews_1965 / andrews_1965_product by carbon", [linear[2]])
+
+
+def _member(composition: Composition, index: int) -> Composition:
+    return Composition.from_dict({e: np.ravel(np.broadcast_to(v, composition.shape))[index]
+                                  for e, v in composition.as_dict().items()})
+
+
+def _driving_elements(function, composition: Composition) -> str:
+    """The elements that move a correlation most for one steel: 'C 2 (-846 K), Mn 1 (-30 K)'."""
+    value = float(function(composition))
+    moves = []
+    for element, content in composition.as_dict().items():
+        if float(content) > 0:
+            without = Composition.from_dict({**composition.as_dict(), element: 0.0})
+            moves.append((value - float(function(without)), element, float(content)))
+    moves.sort(key=lambda m: -abs(m[0]))
+    return ", ".join(f"{e} {c:g} % ({d:+.0f} K)" for d, e, c in moves[:3] if abs(d) >= 0.5) or "the base value"
+
+
+def _ae3_hypo(c):
+    return np.where(c.C < eutectoid_carbon_andrews_1965(c), ae3_andrews_1965(c), ae1_andrews_1965(c))
+
+
+def check_physical(composition: Composition, ms_method: str | None = None):
+    """Refuse a steel whose correlations give temperatures that cannot be.
+
+    Outside its calibrated range a correlation only warns; but Ms or Bs at or below 0 K,
+    Ae1 or Ae3 above :data:`HIGHEST_CRITICAL_C` (the solidus of steels) or at 0 K, Ms at or
+    above Ae1, or Bs at or above Ae3 are no steel at all. The InputError names the
+    correlation and the elements that drive it (for a batch, the first such heat).
+    """
+    ms_function, ms_label, _, _ = _ms(composition, ms_method)
+    ae1, ae3 = ae1_andrews_1965(composition), _ae3_hypo(composition)
+    ms, bs = ms_function(composition), bs_steven_haynes_1956(composition)
+    hot = celsius_to_kelvin(HIGHEST_CRITICAL_C)
+    checks = [
+        (ms <= 0.0, ms_function, None, f"Ms from {ms_label}", "is below absolute zero"),
+        (bs <= 0.0, bs_steven_haynes_1956, None, "Bs from Steven & Haynes (1956)", "is below absolute zero"),
+        ((ae1 >= hot) | (ae1 <= 0.0), ae1_andrews_1965, None, "Ae1 from Andrews (1965)",
+         f"lies outside 0 K to {HIGHEST_CRITICAL_C:g} °C (above the solidus of steels)"),
+        ((ae3 >= hot) | (ae3 <= 0.0), _ae3_hypo, None, "Ae3 from Andrews (1965)",
+         f"lies outside 0 K to {HIGHEST_CRITICAL_C:g} °C (above the solidus of steels)"),
+        (ms >= ae1, ms_function, ae1_andrews_1965, f"Ms from {ms_label}", "lies at or above Ae1 (Andrews 1965)"),
+        (bs >= ae3, bs_steven_haynes_1956, _ae3_hypo, "Bs from Steven & Haynes (1956)",
+         "lies at or above Ae3 (Andrews 1965)"),
+    ]
+    for bad, function, other, what, problem in checks:
+        bad = np.broadcast_to(bad, composition.shape)
+        if not np.any(bad):
+            continue
+        i = int(np.argmax(np.ravel(bad)))
+        one = _member(composition, i) if composition.shape else composition
+        value = kelvin_to_celsius(float(function(one)))
+        if other is None:
+            driver = function
+        else:
+            problem += f", {kelvin_to_celsius(float(other(one))):.0f} °C"
+            driver = lambda c, f=function, g=other: f(c) - g(c)  # noqa: E731  the gap between the two
+        where = "" if not composition.shape else f" in {np.count_nonzero(bad)} of {bad.size} heats (first: heat {i})"
+        raise InputError(None, "composition",
+                         f"{what} is {value:.0f} °C and {problem}{where}: the correlations are extrapolated past "
+                         f"anything physical, driven by {_driving_elements(driver, one)}; this analysis cannot "
+                         "be modelled")
 
 
 def kinetics_with(overrides: Mapping | None = None) -> dict:
@@ -160,7 +236,8 @@ def li1998_products(composition: Composition, grain_size_astm, ms_method: str | 
     if ms_method is not None and ms_method not in MS_METHODS:
         raise ValueError(f"unknown ms_method '{ms_method}'; choose one of: {', '.join(MS_METHODS)}")
     coefficients = kinetics_with(kinetics)
-    ms, ms_label, _, _ = _ms(composition, ms_method)
+    ms_function, ms_label, _, _ = _ms(composition, ms_method)
+    ms = ms_function(composition)
     ae1 = ae1_andrews_1965(composition)
     hypoeutectoid = composition.C < eutectoid_carbon_andrews_1965(composition)
     ae3 = np.where(hypoeutectoid, ae3_andrews_1965(composition), ae1)
@@ -179,6 +256,26 @@ def li1998_products(composition: Composition, grain_size_astm, ms_method: str | 
         "M90": CriticalTemperature(_plain(martensite.temperature_for_fraction(0.9)), km),
     }
     return products, martensite, critical
+
+
+def element_warnings(composition: Composition) -> list[str]:
+    """Warnings for elements present that the kinetics, or every model, leaves out."""
+    present = [e for e in composition.as_dict() if np.any(getattr(composition, e) > 0)]
+    critical_only = [e for e in present if e in CRITICAL_ONLY_ELEMENTS]
+    ignored = [e for e in present if e not in LI1998_ELEMENTS and e not in CRITICAL_ONLY_ELEMENTS]
+    warnings = []
+    if critical_only:
+        verb = "moves" if len(critical_only) == 1 else "move"
+        warnings.append(f"{', '.join(critical_only)} {verb} only the critical temperatures (Andrews' Ae1/Ae3), not "
+                        "the Li et al. (1998) kinetics, which has no term for them")
+    if ignored:
+        verb = "enters" if len(ignored) == 1 else "enter"
+        they = "it changes" if len(ignored) == 1 else "they change"
+        warnings.append(f"{', '.join(ignored)} {verb} none of the models, so {they} nothing in this diagram")
+    if "B" in present:
+        warnings.append("boron raises hardenability strongly even at 0.001-0.003 %: the real ferrite and pearlite "
+                        "curves lie at longer times than drawn")
+    return warnings
 
 
 def _as_mapping(composition):
@@ -243,6 +340,9 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         raise InputError(None, "composition", str(exc)) from None
     if "C" not in mass_percent:
         raise InputError(None, "composition", "carbon (C) is required: the steel models depend on it")
+    if np.any(comp.C > MAX_STEEL_CARBON):
+        raise InputError(None, "composition", f"carbon above {MAX_STEEL_CARBON:g} mass % is cast iron, not steel "
+                         f"(got {float(np.max(comp.C)):g}); the steel models do not apply")
     grain = np.asarray(DEFAULT_GRAIN_SIZE_ASTM if grain_size_astm is None else grain_size_astm, dtype=float)
     low, high = GRAIN_SIZE_RANGE
     if not np.all((grain >= low) & (grain <= high)):
@@ -262,6 +362,7 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
             raise InputError(None, "steel.austenitizing_temperature_C",
                              f"must lie from {lo:g} to {hi:g} °C, got {austenitizing_temperature_C:g}")
 
+    check_physical(comp, ms_method)
     products, martensite, critical = li1998_products(comp, grain, ms_method, kinetics)
     _, _, ms_key, ms_ranges = _ms(comp, ms_method)
     hypereutectoid = critical["Ae3"].value_K <= critical["Ae1"].value_K
@@ -269,12 +370,26 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
              for k, v in critical.items()}
     if np.all(hypereutectoid):
         del lines["Ae3"]
+    warnings = []
+    for key in ("M50", "M90"):
+        never = lines[key] <= 0.0
+        if np.any(never):
+            which = "" if comp.shape == () else f" in {np.count_nonzero(never)} of {never.size} heats"
+            warnings.append(f"{key} by Koistinen-Marburger lies below absolute zero{which}: that much martensite is "
+                            "never reached on cooling, and the line is left out")
+            lines[key] = np.where(never, np.nan, lines[key])
+            if np.all(never):
+                del lines[key]
     lines = {k: _plain(v) for k, v in lines.items()}
     methods = {k: critical[k].method for k in lines}
 
-    warnings = range_warnings(comp, products[0].calibrated_ranges, "Li et al. (1998)")
+    warnings += range_warnings(comp, products[0].calibrated_ranges, "Li et al. (1998)")
     for source in dict.fromkeys(["Andrews (1965), Ae1/Ae3", "Steven & Haynes (1956)", *ms_ranges]):
         warnings += range_warnings(comp, CALIBRATED_RANGES[source], source)
+    warnings += element_warnings(comp)
+    if ms_key.startswith("andrews_1965_product") and np.any(comp.C > ANDREWS_PRODUCT_MS_TURN_C):
+        warnings.append(f"above {ANDREWS_PRODUCT_MS_TURN_C:g} % C Andrews' product-form Ms rises with carbon, "
+                        "which real steels do not: Ms and the martensite lines are unreliable here")
     if np.any(hypereutectoid):
         which = "" if comp.shape == () else f" in {np.count_nonzero(hypereutectoid)} of {hypereutectoid.size} heats"
         warnings.append(f"carbon is at or above the eutectoid content{which}: no proeutectoid ferrite; "
@@ -290,7 +405,8 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
                             "assume fully austenitized steel, so the diagram does not describe this treatment")
 
     upper = max(float(np.max(p.upper_K)) for p in products)
-    lower = max(float(np.min(lines["M90"])) - BELOW_M90_K, celsius_to_kelvin(LOWEST_DEFAULT_C))
+    lowest_line = np.nanmin(lines["M90"]) if "M90" in lines else np.nanmin(lines.get("M50", lines["Ms"]))
+    lower = max(float(lowest_line) - BELOW_M90_K, celsius_to_kelvin(LOWEST_DEFAULT_C))
     if batch == ():
         analysis = ", ".join(f"{k} {float(v):g}" for k, v in mass_percent.items() if float(v) > 0)
         described = f"{analysis} mass %, ASTM grain size {float(grain):g}"

@@ -14,7 +14,7 @@ from dataclasses import dataclass, fields
 import numpy as np
 
 #: Element symbols a composition may hold, in mass percent; any not given is 0.
-ELEMENTS = ("C", "Mn", "Si", "Ni", "Cr", "Mo", "V", "W", "Cu", "Al", "P", "Co", "Ti", "As")
+ELEMENTS = ("C", "Mn", "Si", "Ni", "Cr", "Mo", "V", "W", "Cu", "Al", "P", "Co", "Ti", "As", "B", "Nb", "S", "N")
 
 
 # Full names a user may type instead of the symbol, so the hint can point at the symbol.
@@ -22,6 +22,7 @@ _NAMES = {
     "carbon": "C", "manganese": "Mn", "silicon": "Si", "nickel": "Ni", "chromium": "Cr",
     "molybdenum": "Mo", "vanadium": "V", "tungsten": "W", "copper": "Cu", "aluminium": "Al",
     "aluminum": "Al", "phosphorus": "P", "cobalt": "Co", "titanium": "Ti", "arsenic": "As",
+    "boron": "B", "niobium": "Nb", "columbium": "Nb", "sulfur": "S", "sulphur": "S", "nitrogen": "N",
 }
 
 
@@ -55,7 +56,7 @@ def validate_composition(mass_percent: Mapping[str, object]) -> None:
     >>> validate_composition({"C": 0.4, "mn": 0.8})
     Traceback (most recent call last):
     ...
-    ValueError: unknown element 'mn'; did you mean 'Mn'? (known: C, Mn, Si, Ni, Cr, Mo, V, W, Cu, Al, P, Co, Ti, As)
+    ValueError: unknown element 'mn'; did you mean 'Mn'? (known: C, Mn, Si, Ni, Cr, Mo, V, W, Cu, Al, P, Co, Ti, As, B, Nb, S, N)
     """
     arrays = {}
     for symbol, value in mass_percent.items():
@@ -117,6 +118,10 @@ class Composition:
     Co: np.ndarray = 0.0
     Ti: np.ndarray = 0.0
     As: np.ndarray = 0.0
+    B: np.ndarray = 0.0
+    Nb: np.ndarray = 0.0
+    S: np.ndarray = 0.0
+    N: np.ndarray = 0.0
 
     def __post_init__(self):
         given = {f.name: getattr(self, f.name) for f in fields(self)}

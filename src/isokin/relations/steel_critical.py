@@ -20,13 +20,18 @@ from .composition import Composition
 KOISTINEN_MARBURGER_ALPHA_PER_K = 0.011
 
 #: Composition ranges (mass %) of the steels each correlation was fitted to, for the
-#: validity warnings.  Andrews (1965): below 0.6 C for Ae1/Ae3 (confirmed, see the
-#: docstrings); his Ms data set about 0.11-0.6 C, up to 4.9 Mn, 5 Ni, 4.6 Cr, 5.4 Mo (from
-#: memory).  Steven & Haynes (1956): about 0.1-0.55 C, 0.2-1.7 Mn, up to 5 Ni, 3.5 Cr,
-#: 1 Mo (from memory).
+#: validity warnings; every element a correlation uses has one.  Andrews (1965): below
+#: 0.6 C for Ae1/Ae3 (confirmed, see the docstrings); his Ms data set about 0.11-0.6 C, up
+#: to 4.9 Mn, 5 Ni, 4.6 Cr, 5.4 Mo (from memory).  For the other elements of his Ae1/Ae3
+#: the limits are assumptions, the levels of the low-alloy and microalloyed steels such
+#: formulas are used for (his own limits could not be checked).  Steven & Haynes (1956):
+#: about 0.1-0.55 C, 0.2-1.7 Mn, up to 5 Ni, 3.5 Cr, 1 Mo (from memory).
 _ANDREWS_MS_RANGE = {"C": (0.11, 0.6), "Mn": (0.0, 4.9), "Ni": (0.0, 5.0), "Cr": (0.0, 4.6), "Mo": (0.0, 5.4)}
 CALIBRATED_RANGES = {
-    "Andrews (1965), Ae1/Ae3": {"C": (0.0, 0.6)},
+    "Andrews (1965), Ae1/Ae3": {"C": (0.0, 0.6), "Mn": (0.0, 2.0), "Si": (0.0, 2.0), "Ni": (0.0, 5.0),
+                                "Cr": (0.0, 5.0), "Mo": (0.0, 1.5), "V": (0.0, 0.5), "W": (0.0, 2.0),
+                                "Cu": (0.0, 1.0), "P": (0.0, 0.1), "Al": (0.0, 0.1), "As": (0.0, 0.05),
+                                "Ti": (0.0, 0.1)},
     "Andrews (1965), linear Ms": _ANDREWS_MS_RANGE,
     "Andrews (1965), product Ms": _ANDREWS_MS_RANGE,
     "Steven & Haynes (1956)": {"C": (0.1, 0.55), "Mn": (0.2, 1.7), "Ni": (0.0, 5.0), "Cr": (0.0, 3.5),
