@@ -7,8 +7,10 @@ version`` start fast.
 
 from __future__ import annotations
 
+import math
 import os
 import re
+import signal
 import sys
 from enum import Enum
 from pathlib import Path
@@ -119,7 +121,9 @@ def _load(alloy_file: Optional[Path], inline: Inline):
             raise InputError(None, option, "goes with --composition; an alloy file sets it itself")
         from ..io.alloy_file import load_alloy
 
-        return load_alloy(alloy_file), alloy_file.stem
+        alloy = load_alloy(alloy_file)
+        stem = alloy_file.stem if not alloy_file.stem.startswith(".") else _stem(alloy.name)
+        return alloy, stem
     if alloy_file is not None:
         raise InputError(None, "--composition", "give either an alloy file or --composition, not both")
     from ..products.steel import DEFAULT_GRAIN_SIZE_ASTM, steel
@@ -165,7 +169,7 @@ def _output_paths(out: Path, stem: str, fmt: str, overwrite: bool):
         "curves": out / f"{stem}-curves.csv",
         "summary": out / f"{stem}-summary.json",
     }
-    existing = [str(p) for p in paths.values() if p.exists()]
+    existing = [str(p) for p in paths.values() if p.exists() or p.is_symlink()]
     if existing and not overwrite:
         raise InputError(None, "--out", f"{existing[0]} exists; pass --overwrite to replace it, or choose another --out")
     return paths
@@ -216,7 +220,7 @@ def diagram(
     tmax_c: Annotated[Optional[float], typer.Option("--tmax-c", parser=_decimal, metavar="NUMBER",
                                                     help="Highest hold temperature, °C.")] = None,
     points: Annotated[Optional[int], typer.Option("--points", parser=_whole, metavar="N",
-                                                  help="Hold temperatures in the grid (3 to 20,000).")] = None,
+                                                  help="Hold temperatures in the grid (3 to 5,000).")] = None,
     fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
     overwrite: Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")] = False,
 ):
@@ -230,7 +234,7 @@ def diagram(
     try:
         alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
         grid = alloy_grid(alloy, tmin_c, tmax_c, points)
-        fr = default_fractions(check_fractions(fraction or [0.5], key="fractions"))
+        fr = check_fractions(default_fractions(fraction or ()), key="fractions")
         paths = _output_paths(out, stem, fmt.value, overwrite)
     except InputError as exc:
         fail(exc)
@@ -240,15 +244,22 @@ def diagram(
     import matplotlib
 
     matplotlib.use("Agg")
-    from ..io.export import write_curves_csv, write_figure, write_summary_json
+    from ..io.export import write_curves_csv, write_figure, write_outputs, write_summary_json
     from ..plot.ttt import ttt_figure
 
+    figure = ttt_figure(result)
     try:
-        write_figure(ttt_figure(result), paths["figure"])
-        write_curves_csv(result, paths["curves"])
-        write_summary_json(result, paths["summary"])
+        write_outputs({
+            paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
+            paths["curves"]: lambda p: write_curves_csv(result, p),
+            paths["summary"]: lambda p: write_summary_json(result, p),
+        }, overwrite=overwrite)
+    except FileExistsError as exc:
+        fail(f"--out: {exc.filename} appeared while writing; nothing was written; pass --overwrite or choose "
+             "another --out")
     except OSError as exc:
-        fail(f"--out: cannot write into {out} ({exc.strerror or exc})")
+        where = f": {exc.filename}" if getattr(exc, "filename", None) else ""
+        fail(f"--out: cannot write into {out} ({exc.strerror or exc}{where}); nothing was written")
     typer.echo(f"{alloy.name}: {alloy.model}")
     _print_noses(result)
     for p in paths.values():
@@ -290,7 +301,15 @@ def _print_nuclei(product):
     typer.echo(f"  {product.name}: critical nucleus below {kelvin_to_celsius(float(product.upper_K)):.1f} °C")
     typer.echo(f"    {'undercooling K':>14}  {'r* nm':>9}  {'dG* J':>10}  {'dG*/kT':>8}  {'ln I':>8}")
     for dt, r, barrier, barrier_kt, log_i in zip(*rows.values()):
-        typer.echo(f"    {dt:>14.0f}  {r * 1e9:>9.3g}  {barrier:>10.3g}  {barrier_kt:>8.3g}  {log_i:>8.3g}")
+        typer.echo(f"    {dt:>14.0f}  {_cell(r * 1e9, 9)}  {_cell(barrier, 10)}  {_cell(barrier_kt, 8)}  "
+                   f"{_cell(log_i, 8)}")
+    if not len(rows["undercooling_K"]):
+        typer.echo("    (none of these undercoolings lies above the product's lower temperature)")
+
+
+def _cell(value, width):
+    """A number of the nucleus table; where none exists (no stable nucleus there), the word."""
+    return f"{value:>{width}.3g}" if math.isfinite(value) else f"{'none':>{width}}"
 
 
 @app.command()
@@ -299,10 +318,19 @@ def version():
     typer.echo(__version__)
 
 
+def _terminated(signum, frame):
+    # unwinds like an exception, so that temporary files are cleaned up on the way out
+    raise SystemExit(128 + signum)
+
+
 def main():
     """Entry point: a usage error (unknown option, wrong type, value out of range) ends with one line too."""
+    signal.signal(signal.SIGTERM, _terminated)
     try:
         code = app(standalone_mode=False)
+    except KeyboardInterrupt:
+        typer.echo("isokin: interrupted; nothing more was written", err=True)
+        sys.exit(130)
     except Exception as exc:
         # click-style usage errors, whichever click copy typer carries: exit code 2 and a message
         if getattr(exc, "exit_code", None) != 2 or not hasattr(exc, "format_message"):

@@ -9,8 +9,11 @@ from ..errors import InputError
 
 DEFAULT_FRACTIONS = (0.01, 0.5, 0.99)
 DEFAULT_POINTS = 200
-#: Grids larger than this are refused: they add nothing a reader can see.
-MAX_POINTS = 100_000
+#: Grids larger than this are refused: they add nothing a reader can see, and a run within
+#: the limits stays within seconds and well under 1 GB.
+MAX_POINTS = 5_000
+#: Most transformed fractions in one diagram (the default three and nine more).
+MAX_FRACTIONS = 12
 
 
 def default_fractions(extra=()):
@@ -30,7 +33,10 @@ def check_fractions(fractions, key="fractions"):
         raise InputError(None, key, "give one or more fractions, e.g. (0.01, 0.5, 0.99)")
     if bad.size:
         raise InputError(None, key, f"must lie strictly between 0 and 1 (0.05 for 5 %), got {bad[0]:g}")
-    return np.unique(fr)
+    fr = np.unique(fr)
+    if fr.size > MAX_FRACTIONS:
+        raise InputError(None, key, f"at most {MAX_FRACTIONS} distinct fractions in one diagram, got {fr.size}")
+    return fr
 
 
 def temperature_grid(tmin_K, tmax_K, points=DEFAULT_POINTS):

@@ -10,6 +10,7 @@ import difflib
 import importlib
 from pathlib import Path
 
+from ..compute.grid import MAX_POINTS
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from .schema import NOTE_LIMIT, Key, parse_toml, read_table
@@ -27,7 +28,7 @@ ALLOY_KEYS = {
 DIAGRAM_KEYS = {
     "lower_temperature_C": Key(float, low=-273.15, low_open=True, unit="°C"),
     "upper_temperature_C": Key(float, low=-273.15, low_open=True, unit="°C"),
-    "points": Key(int, low=3, high=100_000),
+    "points": Key(int, low=3, high=MAX_POINTS),
 }
 COMMON_TABLES = ("alloy", "diagram")
 

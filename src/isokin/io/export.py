@@ -1,16 +1,17 @@
-"""Files a plan can be built on: tidy CSV of the curves and a JSON summary.
+"""Files a plan can be built on: tidy CSV of the curves, a JSON summary, the figure.
 
-Every file is written to a temporary name in the target folder and renamed into place, so
-a crash never leaves half a file where a good one was.
+The files of one run are written to temporary names in the target folder and put in place
+together at the end (:func:`write_outputs`), so a failure midway never leaves a new figure
+beside an old table, nor half a file where a good one was.
 """
 
 from __future__ import annotations
 
-import csv
+import errno
 import json
 import os
 import tempfile
-from contextlib import contextmanager
+import warnings
 from pathlib import Path
 
 import numpy as np
@@ -23,32 +24,94 @@ from ..results import PRACTICAL_HORIZON_S, TTTResult
 CURVE_COLUMNS = ["product", "fraction", "temperature_C", "time_s"]
 
 
-@contextmanager
-def atomic_path(target: Path):
-    """Yield a temporary path beside ``target``; rename it onto ``target`` on success."""
-    target = Path(target)
-    fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=target.suffix, dir=target.parent)
-    os.close(fd)
+def _umask() -> int:
+    mask = os.umask(0)
+    os.umask(mask)
+    return mask
+
+
+def write_outputs(writers: dict, overwrite: bool = False):
+    """Write a set of files so that they land together or not at all.
+
+    Parameters
+    ----------
+    writers : dict of Path to callable
+        For each final path, a function that writes the file at the path it is given.
+    overwrite : bool
+        Replace existing files. Without it every final name is created exclusively (an
+        existing file, or a dangling link, makes the whole set fail and nothing is left).
+
+    Raises
+    ------
+    FileExistsError
+        Without ``overwrite``, when a final name exists by the time the set is put in place.
+    """
+    temporaries = {}
+    placed = []
+    mode = 0o666 & ~_umask()
     try:
-        yield Path(tmp)
-        os.replace(tmp, target)
+        for target, write in writers.items():
+            target = Path(target)
+            fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=target.suffix, dir=target.parent)
+            os.close(fd)
+            temporaries[target] = Path(tmp)
+            write(Path(tmp))
+            os.chmod(tmp, mode)
+        for target in temporaries:  # what would stop a rename halfway is found before the first
+            if target.is_dir() and not target.is_symlink():
+                raise IsADirectoryError(errno.EISDIR, "a folder is in the way", str(target))
+        for target, tmp in temporaries.items():
+            if overwrite:
+                os.replace(tmp, target)
+            else:
+                _place_exclusively(tmp, target)
+                placed.append(target)
+        placed.clear()
     finally:
-        if os.path.exists(tmp):
-            os.unlink(tmp)
+        for target in placed:  # a later file failed: take back the ones put in place
+            target.unlink(missing_ok=True)
+        for tmp in temporaries.values():
+            tmp.unlink(missing_ok=True)
 
 
-def _cell(value):
-    return f"{value:.6g}" if isinstance(value, (float, np.floating)) else str(value)
+def _place_exclusively(tmp: Path, target: Path):
+    """Give ``tmp`` the name ``target`` only if no such name exists (race-free via a hard link)."""
+    try:
+        os.link(tmp, target)
+    except OSError as exc:
+        if exc.errno == errno.EEXIST:
+            raise FileExistsError(errno.EEXIST, "exists", str(target)) from None
+        # no hard links on this file system: an exclusive create, then the content
+        fd = os.open(target, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o600)
+        os.close(fd)
+        os.replace(tmp, target)
+
+
+def _csv_text(value: str) -> str:
+    """A text cell, quoted as CSV requires (commas, quotes, line breaks)."""
+    if any(ch in value for ch in ',"\r\n'):
+        return '"' + value.replace('"', '""') + '"'
+    return value
+
+
+def _column_text(values: np.ndarray) -> list:
+    """Cells of one column: numbers as the shortest text that reads back as the same float, so
+    distinct values stay distinct; texts quoted as CSV requires."""
+    if values.dtype.kind == "f":
+        return [repr(v) for v in values.tolist()]
+    if values.dtype.kind in "iub":
+        return [str(v) for v in values.tolist()]
+    quoted = {v: _csv_text(str(v)) for v in set(values.tolist())}
+    return [quoted[v] for v in values.tolist()]
 
 
 def write_curves_csv(result: TTTResult, target: Path):
-    """The tidy curve table (``member`` first for a batch), written atomically."""
+    """The tidy curve table (``member`` first for a batch)."""
     columns = result.curve_columns()
-    names = list(columns)
-    with atomic_path(target) as tmp, open(tmp, "w", newline="", encoding="utf-8") as handle:
-        writer = csv.writer(handle, lineterminator="\n")
-        writer.writerow(names)
-        writer.writerows([_cell(v) for v in row] for row in zip(*(columns[n].tolist() for n in names)))
+    cells = [_column_text(np.asarray(v)) for v in columns.values()]
+    with open(target, "w", newline="", encoding="utf-8") as handle:
+        handle.write(",".join(columns) + "\n")
+        handle.writelines(",".join(row) + "\n" for row in zip(*cells))
 
 
 def _temperature_C(t_k):
@@ -97,12 +160,12 @@ def summary(result: TTTResult) -> dict:
 
 
 def write_summary_json(result: TTTResult, target: Path):
-    with atomic_path(target) as tmp:
-        tmp.write_text(json.dumps(summary(result), indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+    Path(target).write_text(json.dumps(summary(result), indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
 
 
-def write_figure(fig, target: Path, dpi=150):
-    """Write a matplotlib figure atomically; the format follows the extension (png, svg, pdf)."""
-    target = Path(target)
-    with atomic_path(target) as tmp:
-        fig.savefig(tmp, dpi=dpi, format=target.suffix.lstrip("."))
+def write_figure(fig, target: Path, fmt: str, dpi=150):
+    """Write a matplotlib figure in the format named (png, svg, pdf)."""
+    with warnings.catch_warnings():
+        # a crowded figure keeps its default layout; the note would only be noise for the user
+        warnings.filterwarnings("ignore", message="constrained_layout not applied")
+        fig.savefig(target, dpi=dpi, format=fmt)

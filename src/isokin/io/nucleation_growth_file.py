@@ -17,6 +17,8 @@ from .schema import Key, read_table
 from .tables import read_driving_force_table
 
 TABLES = ("product",)
+#: Most products in one file: more would not be readable in one diagram.
+MAX_PRODUCTS = 8
 
 #: Each physical key with a plausible range for metals (common practice, no single source):
 #: outside it a value is a typing slip, not an alloy, and is refused before it reaches the
@@ -102,6 +104,8 @@ def load(source: Path, head: dict, data: dict):
         raise InputError(source, "product", "at least one [[product]] table is required")
     if not isinstance(tables, list):
         raise InputError(source, "product", "must be written as [[product]] (an array of tables)")
+    if len(tables) > MAX_PRODUCTS:
+        raise InputError(source, "product", f"at most {MAX_PRODUCTS} [[product]] tables, got {len(tables)}")
     products = [_product_from_table(source, i + 1, t) for i, t in enumerate(tables)]
     try:
         return nucleation_growth_alloy(head["name"], products, inputs={"alloy": data["alloy"], "product": tables})

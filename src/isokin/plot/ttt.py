@@ -10,16 +10,19 @@ from __future__ import annotations
 
 import matplotlib.pyplot as plt
 import numpy as np
+from matplotlib.lines import Line2D
 
 from ..constants import kelvin_to_celsius
 from ..readout import CAUTION_SHORT, format_duration
 from ..results import PRACTICAL_HORIZON_S, TTTResult
 
 #: Dark, well-separated hues whose grey levels also differ.
-PRODUCT_COLOURS = ("#17324d", "#a8431a", "#2e6b3c", "#5b3a7a", "#7a6a12")
-PRODUCT_MARKERS = ("D", "o", "s", "^", "v")
+PRODUCT_COLOURS = ("#17324d", "#a8431a", "#2e6b3c", "#5b3a7a", "#7a6a12", "#0f6b73", "#7a2e4d", "#4d4d4d")
+PRODUCT_MARKERS = ("D", "o", "s", "^", "v", "P", "X", "h")
 FRACTION_STYLES = {0.01: (0, (5, 2.5)), 0.5: "-", 0.99: (0, (1.2, 1.6))}
-OTHER_FRACTION_STYLE = (0, (6, 2, 1.2, 2))
+#: Patterns for further fractions, in order: each extra fraction has one of its own.
+OTHER_FRACTION_STYLES = ((0, (6, 2, 1.2, 2)), (0, (10, 2)), (0, (3, 1.5, 1, 1.5, 1, 1.5)), (0, (8, 2, 2, 2)),
+                         (0, (2, 3)), (0, (12, 2, 1, 2)), (0, (4, 4)), (0, (1, 1)), (0, (7, 1.5, 1.5, 1.5, 1.5, 1.5)))
 LINE_STYLE = {"color": "#555555", "linewidth": 0.8, "linestyle": (0, (8, 3))}
 TIME_MARKS_S = {"1 min": 60.0, "1 h": 3600.0, "1 day": 86400.0, "1 week": 604800.0}
 
@@ -48,7 +51,8 @@ def plot_ttt(result: TTTResult, ax=None):
     if ax is None:
         _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
     t_c = result.temperatures_C
-    shown_times = []
+    styles = _fraction_styles(result.fractions)
+    shown_times, shown_products, shown_fractions = [], {}, {}
     for i, name in enumerate(result.products):
         colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
         ok = result.practical(name)
@@ -57,8 +61,9 @@ def plot_ttt(result: TTTResult, ax=None):
                 continue
             times = np.where(ok[k], result.times_s[name][k], np.nan)
             shown_times.append(times[ok[k]])
-            style = FRACTION_STYLES.get(round(float(x), 6), OTHER_FRACTION_STYLE)
-            ax.plot(times, t_c, color=colour, linestyle=style, linewidth=1.6, label=f"{literal(name)} {x * 100:g} %")
+            ax.plot(times, t_c, color=colour, linestyle=styles[k], linewidth=1.6)
+            shown_products[name] = colour
+            shown_fractions[k] = styles[k]
     if not shown_times:
         ax.text(0.5, 0.5, "no product forms within the practical horizon in this range",
                 transform=ax.transAxes, ha="center")
@@ -89,8 +94,21 @@ def plot_ttt(result: TTTResult, ax=None):
     ax.set_ylabel("hold temperature, °C")
     ax.set_title(f"Isothermal transformation: {literal(result.alloy)}", fontsize=11, loc="left")
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
-    ax.legend(loc="best", fontsize=7.5, frameon=True, framealpha=0.92, ncols=1 if len(result.products) < 2 else 2)
+    # One entry per product (its colour) and one per fraction (its line pattern), not one per
+    # curve: the key stays short however many curves there are.
+    handles = [Line2D([], [], color=c, linewidth=2.4, label=literal(n)) for n, c in shown_products.items()]
+    handles += [Line2D([], [], color="#333333", linestyle=styles[k], linewidth=1.4,
+                       label=f"{result.fractions[k] * 100:g} % transformed") for k in sorted(shown_fractions)]
+    if handles:
+        ax.legend(handles=handles, loc="best", fontsize=7.5, frameon=True, framealpha=0.92,
+                  ncols=1 if len(handles) < 8 else 2)
     return ax
+
+
+def _fraction_styles(fractions):
+    """A line pattern per fraction: the standard ones for 1, 50, 99 %, then one each for the rest."""
+    extra = iter(OTHER_FRACTION_STYLES * 2)
+    return [FRACTION_STYLES.get(round(float(x), 6)) or next(extra) for x in fractions]
 
 
 def ttt_figure(result: TTTResult, footer_extra=""):
@@ -120,7 +138,9 @@ def _nose_labels(result: TTTResult):
             continue
         temps = [T for _, T, _ in noses]
         if max(temps) - min(temps) < 1.0:  # the fractions share one nose temperature
-            times = "\n".join(f"{x * 100:g} %: {format_duration(t)}" for x, _, t in noses)
+            # with many fractions the label names the standard three (and the markers show all)
+            listed = [n for n in noses if round(n[0], 6) in FRACTION_STYLES] if len(noses) > 4 else noses
+            times = "\n".join(f"{x * 100:g} %: {format_duration(t)}" for x, _, t in listed or noses)
             labels.append((i, float(np.mean(temps)), f"{name} nose {np.mean(temps):.0f} °C\n{times}", noses))
         else:
             labels += [(i, T, f"{name} {x * 100:g} % nose\n{T:.0f} °C, {format_duration(t)}", [(x, T, t)])
