@@ -247,6 +247,8 @@ def diagram(
     from ..io.export import write_curves_csv, write_figure, write_outputs, write_summary_json
     from ..plot.ttt import ttt_figure
 
+    import matplotlib.pyplot as plt
+
     figure = ttt_figure(result)
     try:
         write_outputs({
@@ -260,6 +262,8 @@ def diagram(
     except OSError as exc:
         where = f": {exc.filename}" if getattr(exc, "filename", None) else ""
         fail(f"--out: cannot write into {out} ({exc.strerror or exc}{where}); nothing was written")
+    finally:
+        plt.close(figure)
     typer.echo(f"{alloy.name}: {alloy.model}")
     _print_noses(result)
     for p in paths.values():

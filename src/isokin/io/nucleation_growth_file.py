@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import re
 from pathlib import Path
 
 from ..constants import AVOGADRO_PER_MOL, celsius_to_kelvin
@@ -73,7 +74,11 @@ def _product_from_table(source: Path, index: int, table) -> NucleationGrowthProd
                 raise InputError(source, where + name, "is not used with driving_force = 'table' (the table sets it); remove it")
         if "driving_force_table" not in v:
             raise InputError(source, where + "driving_force_table", "required with driving_force = 'table': a CSV with temperature_C, dGm_J_mol")
-        params["table"] = read_driving_force_table(source, where + "driving_force_table", source.parent / v["driving_force_table"])
+        name = v["driving_force_table"]
+        if re.match(r"[A-Za-z][A-Za-z0-9+.-]*://", name):
+            raise InputError(source, where + "driving_force_table", f"{name} looks like a URL; give a local file, "
+                             "relative to the alloy file's folder")
+        params["table"] = read_driving_force_table(source, where + "driving_force_table", source.parent / name)
     else:
         for name in ("equilibrium_temperature_C", "latent_heat_J_mol"):
             if name not in v:

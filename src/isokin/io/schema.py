@@ -61,12 +61,9 @@ def check_text(source, key, value, limit=NAME_LIMIT):
 def read_input_file(source, key, path: Path, what="file") -> str:
     """The text of a regular local file of at most :data:`FILE_LIMIT_BYTES`, as UTF-8.
 
-    Devices, pipes and folders are refused (they may never end), and so is anything that
-    names a URL: input is read from local files only.
+    Devices, pipes and folders are refused (they may never end).
     """
     text = str(path)
-    if "://" in text:
-        raise InputError(source, key, f"{what} {text} looks like a URL; give a local file")
     try:
         info = os.stat(path)
     except FileNotFoundError:
