@@ -363,3 +363,16 @@ def test_successful_runs_print_only_the_tools_own_lines():
         code, out, err, caught = run_main("check", alloy)
         assert_clean_outcome(code, out, err, caught)
         assert code == 0
+
+
+def test_times_faster_than_any_diffusional_transformation_are_flagged(tmp_path):
+    # Every key within its own range, together a nonsense alloy: the result says so.
+    text = GOOD
+    for key, value in (("diffusion_prefactor_m2_s", 0.1), ("diffusion_activation_J_mol", 0.0),
+                       ("nucleation_activation_J_mol", 0.0), ("diffusion_distance_m", 1e-11),
+                       ("interface_energy_J_m2", 0.001)):
+        text = _set_key(text, "[[product]]", key, value)
+    (tmp_path / "fast.toml").write_text(text)
+    code, out, err, caught = run_main("check", tmp_path / "fast.toml")
+    assert_clean_outcome(code, out, err, caught)
+    assert code == 0 and "faster than any diffusional transformation" in err

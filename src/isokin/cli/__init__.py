@@ -152,8 +152,8 @@ def _print_noses(result):
             typer.echo(f"{name:<14}  does not form in the temperature range asked for")
 
 
-def _warn(alloy):
-    for line in alloy.warnings:
+def _warn(result):
+    for line in result.warnings:
         typer.echo(f"isokin: warning: {line}", err=True)
 
 
@@ -238,8 +238,8 @@ def diagram(
         paths = _output_paths(out, stem, fmt.value, overwrite)
     except InputError as exc:
         fail(exc)
-    _warn(alloy)
     result = ttt(alloy, temperatures_C=kelvin_to_celsius(grid), fractions=fr)
+    _warn(result)
 
     import matplotlib
 
@@ -289,7 +289,7 @@ def check(
         result = ttt(alloy)
     except InputError as exc:
         fail(exc)
-    _warn(alloy)
+    _warn(result)
     typer.echo(f"{alloy.name}: {alloy.model}; the input is valid")
     for line, t_k in alloy.critical_K.items():
         typer.echo(f"  {line:<16}{kelvin_to_celsius(float(t_k)):8.1f} °C   {alloy.critical_methods.get(line, '')}")

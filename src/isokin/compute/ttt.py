@@ -14,6 +14,8 @@ from ..errors import InputError
 from ..results import Noses, TTTResult
 from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
 
+#: A nose faster than this (s) means an input slip, not a transformation: said in a warning.
+IMPLAUSIBLY_FAST_S = 1.0e-9
 #: Each nose temperature is refined to this, K.
 NOSE_TOLERANCE_K = 0.01
 _INVERSE_GOLDEN = (np.sqrt(5.0) - 1.0) / 2.0
@@ -122,6 +124,11 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None) ->
         if grid.size < 3 or not np.all(np.isfinite(grid)) or grid[0] <= 0 or np.any(np.diff(grid) <= 0):
             raise InputError(None, "temperatures_C", "give three or more distinct finite temperatures above -273.15 °C")
     times, noses = solve_ttt(alloy.products, grid, fr)
+    warnings = list(alloy.warnings)
+    fastest = min((float(np.min(n.time_s)) for n in noses.values()), default=np.inf)
+    if fastest < IMPLAUSIBLY_FAST_S:
+        warnings.append(f"the fastest curve reaches its fraction in {fastest:.2g} s, faster than any diffusional "
+                        "transformation: check the units and magnitudes of the input")
     return TTTResult(
         alloy=alloy.name,
         model=alloy.model,
@@ -136,7 +143,7 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None) ->
         critical_methods=dict(alloy.critical_methods),
         batch_shape=alloy.batch_shape,
         footer=alloy.footer,
-        warnings=tuple(alloy.warnings),
+        warnings=tuple(warnings),
         inputs=alloy.inputs,
         provenance=dict(alloy.provenance),
     )
