@@ -163,20 +163,31 @@ def reaction_rate_shape(X):
     return value if value.ndim else float(value)
 
 
-# Inverse: an interpolation table in w = y**0.6 (S is close to linear in w near 0, where
-# S ~ y**0.6 / 0.6), then Newton steps on the exact S of the lower half.
-_TABLE_Y = 0.5 * (1.0 - np.cos(np.linspace(0.0, np.pi / 2.0, 257)))
+# Inverse: cubic Hermite interpolation of w = y**0.6 against S on 1025 nodes clustered
+# towards y = 0 (S is close to linear in w there, S ~ w / 0.6), with the exact slope
+# dw/dS = 0.6 y**(-0.4 y) (1 - y)**(0.4 y). Better than 1e-12 relative over the whole
+# range, at a few tens of nanoseconds a value: no root finding.
+_TABLE_W = 0.5**0.6 * np.linspace(0.0, 1.0, 1025) ** 3
+_TABLE_Y = _TABLE_W ** (1.0 / 0.6)
 _TABLE_S = _lower_half(_TABLE_Y)
-_NEWTON_STEPS = 2
+
+
+def _dw_ds(y):
+    with np.errstate(divide="ignore", invalid="ignore"):
+        value = 0.6 * np.exp(-_EXPONENT * y * np.log(y) + _EXPONENT * y * np.log1p(-y))
+    return np.where(y > 0.0, value, 0.6)
+
+
+_TABLE_SLOPE = _dw_ds(_TABLE_Y)
 
 
 def reaction_integral_inverse(S):
     """The fraction X at which the Li et al. (1998) reaction term reaches S, dimensionless.
 
     The inverse of :func:`reaction_integral`, used where a time is known and the fraction
-    is wanted (X from t / F(T) along a path). Symmetry gives X = 1 - X(2 S(1/2) - S) above
-    S(1/2), so only the lower half is solved: a table lookup in y**0.6, then Newton steps
-    on S(y) - S with dS/dy = :func:`reaction_integrand`.
+    is wanted (X from t / F(T) during a hold or along a path). Symmetry gives
+    X = 1 - X(2 S(1/2) - S) above S(1/2), so only the lower half is tabulated: cubic
+    Hermite interpolation of y**0.6 against S with its exact slope.
 
     Parameters
     ----------
@@ -186,7 +197,7 @@ def reaction_integral_inverse(S):
     Returns
     -------
     ndarray or float
-        X in [0, 1], same shape as ``S``; better than 1e-12 against scipy's brentq on
+        X in [0, 1], same shape as ``S``; better than 1e-11 against scipy's brentq on
         :func:`reaction_integral` (tested).
 
     Raises
@@ -204,12 +215,11 @@ def reaction_integral_inverse(S):
         raise ValueError(f"reaction term S must lie in [0, {2.0 * _HALF:.6f}]")
     upper = S > _HALF
     s = np.where(upper, 2.0 * _HALF - S, S)
-    w = np.interp(s, _TABLE_S, _TABLE_Y**0.6)
-    y = w ** (1.0 / 0.6)
-    for _ in range(_NEWTON_STEPS):
-        inside = y > 0.0
-        ys = np.where(inside, y, 0.25)
-        step = (_lower_half(ys) - s) / np.exp(_log_integrand(ys, 1.0 - ys))
-        y = np.where(inside, np.clip(ys - step, 0.0, 0.5), 0.0)
+    k = np.clip(np.searchsorted(_TABLE_S, s) - 1, 0, _TABLE_S.size - 2)
+    h = _TABLE_S[k + 1] - _TABLE_S[k]
+    u = (s - _TABLE_S[k]) / h
+    w = ((1.0 + 2.0 * u) * (1.0 - u) ** 2 * _TABLE_W[k] + u * (1.0 - u) ** 2 * h * _TABLE_SLOPE[k]
+         + u * u * (3.0 - 2.0 * u) * _TABLE_W[k + 1] + u * u * (u - 1.0) * h * _TABLE_SLOPE[k + 1])
+    y = np.clip(w, 0.0, None) ** (1.0 / 0.6)
     X = np.where(upper, 1.0 - y, y)
     return X if X.ndim else float(X)
