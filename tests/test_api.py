@@ -71,8 +71,10 @@ def test_five_steels_as_a_batch_equal_five_single_runs():
                          temperatures_C=result.temperatures_C)
         member = result.member(i)
         for name in one.products:
-            np.testing.assert_allclose(member.times_s[name], one.times_s[name], rtol=1e-13)
-            np.testing.assert_allclose(member.noses[name].temperature_K, one.noses[name].temperature_K, atol=1e-9)
+            # the whole-decomposition curve is root-found (to 1e-10 in ln t), the products' are closed form
+            np.testing.assert_allclose(member.times_s[name], one.times_s[name], rtol=1e-9 if name == "total" else 1e-13)
+            np.testing.assert_allclose(member.noses[name].temperature_K, one.noses[name].temperature_K,
+                                       atol=NOSE_TOLERANCE_K)
         assert member.critical_K == pytest.approx(one.critical_K)
     frame = result.to_frame()
     assert list(frame.columns) == ["member", "product", "fraction", "temperature_C", "time_s"]

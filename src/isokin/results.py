@@ -15,6 +15,8 @@ from .constants import kelvin_to_celsius
 #: Times beyond this (about 32 years) are reported as "does not form in practice": they are
 #: left out of the curves, the figure and the exports rather than shown as huge numbers.
 PRACTICAL_HORIZON_S = 1.0e9
+#: The name of the curve of the decomposition as a whole (all products together).
+OVERALL = "total"
 
 
 @dataclass(frozen=True)
@@ -55,7 +57,8 @@ class TTTResult:
     fractions : ndarray, shape (F,)
         Transformed fractions of each product's own completion.
     products : tuple of str
-        Product names, in the alloy's order.
+        Product names, in the alloy's order; last :data:`OVERALL` ("total"), the
+        decomposition as a whole, where the alloy has more than one product.
     times_s : dict of str to ndarray
         Seconds to each fraction, shape (batch..., F, N); ``inf`` where the product does not
         form at that temperature.
@@ -70,6 +73,9 @@ class TTTResult:
     warnings : tuple of str
     inputs, provenance : dict
         The input as read; the model choices and coefficients used.
+    regions : tuple of (str, float, float or None, str)
+        Phase-region labels of a single alloy: text, temperature K, time s (None: along
+        the whole axis) and alignment, placed from the computed curves.
     """
 
     alloy: str
@@ -88,6 +94,7 @@ class TTTResult:
     warnings: tuple = ()
     inputs: dict = field(default_factory=dict)
     provenance: dict = field(default_factory=dict)
+    regions: tuple = ()
 
     @property
     def temperatures_C(self):
@@ -125,6 +132,11 @@ class TTTResult:
             inputs=self.inputs,
             provenance=self.provenance,
         )
+
+    @property
+    def overall(self):
+        """The name of the whole-decomposition curve, or None for a single product."""
+        return OVERALL if OVERALL in self.products else None
 
     def curve_columns(self) -> dict:
         """Columns of the tidy curve table (practical times only), as arrays.

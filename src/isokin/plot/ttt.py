@@ -32,8 +32,17 @@ def literal(text: str) -> str:
     return text.replace("$", r"\$")
 
 
-def plot_ttt(result: TTTResult, ax=None):
-    """Draw the C-curves, their noses and the critical lines of one alloy into ``ax``.
+def to_units(t_c, units="C"):
+    """Temperatures in °C as the figure's units: "C" or "F"."""
+    return np.asarray(t_c) * 1.8 + 32.0 if units == "F" else np.asarray(t_c)
+
+
+def plot_ttt(result: TTTResult, ax=None, units="C"):
+    """Draw the C-curves, their noses, the regions and the critical lines of one alloy into ``ax``.
+
+    Where the alloy has several products, the curves of the decomposition as a whole
+    (``total``: the start at 1 %, and 50 %, 99 % of what can transform) are drawn boldly and
+    the products' own curves lighter beneath them.
 
     Parameters
     ----------
@@ -41,6 +50,8 @@ def plot_ttt(result: TTTResult, ax=None):
         Of a single alloy; for a batch, pass ``result.member(i)``.
     ax : matplotlib Axes, optional
         Where to draw; a new figure's Axes when not given.
+    units : {"C", "F"}
+        Temperature axis in degrees Celsius or Fahrenheit.
 
     Returns
     -------
@@ -48,20 +59,25 @@ def plot_ttt(result: TTTResult, ax=None):
     """
     if result.batch_shape:
         raise ValueError("plot_ttt draws one alloy; pass result.member(i) for a member of a batch")
+    if units not in ("C", "F"):
+        raise ValueError("units must be 'C' or 'F'")
     if ax is None:
         _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
-    t_c = result.temperatures_C
+    t_c = to_units(result.temperatures_C, units)
     styles = _fraction_styles(result.fractions)
     shown_times, shown_products, shown_fractions = [], {}, {}
     for i, name in enumerate(result.products):
-        colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
+        colour = _colour(result, i)
+        bold = name == result.overall
+        light = result.overall is not None and not bold
         ok = result.practical(name)
         for k, x in enumerate(result.fractions):
             if not ok[k].any():
                 continue
             times = np.where(ok[k], result.times_s[name][k], np.nan)
             shown_times.append(times[ok[k]])
-            ax.plot(times, t_c, color=colour, linestyle=styles[k], linewidth=1.6)
+            ax.plot(times, t_c, color=colour, linestyle=styles[k], linewidth=2.8 if bold else 1.3,
+                    alpha=0.55 if light else 1.0, zorder=4 if bold else 3)
             shown_products[name] = colour
             shown_fractions[k] = styles[k]
     if not shown_times:
@@ -73,11 +89,12 @@ def plot_ttt(result: TTTResult, ax=None):
         lo, hi = every.min() / 400.0, min(every.max() * 4.0, PRACTICAL_HORIZON_S)
     ax.set_xscale("log")
     ax.set_xlim(lo, hi)
-    lines_c = [float(kelvin_to_celsius(t)) for t in result.critical_K.values()]
-    bottom, top_c = min(t_c[0], *lines_c), max(t_c[-1], *lines_c)
+    lines = {name: float(to_units(kelvin_to_celsius(t), units)) for name, t in result.critical_K.items()}
+    bottom, top_c = min(t_c[0], *lines.values()), max(t_c[-1], *lines.values())
     ax.set_ylim(bottom - 0.03 * (top_c - bottom), top_c + 0.06 * (top_c - bottom))
     if shown_times:
-        _mark_noses(ax, result, every.min() / 1.8, 0.026 * (t_c[-1] - t_c[0]))
+        _mark_noses(ax, result, every.min() / 1.8, 0.026 * (t_c[-1] - t_c[0]), units)
+        _label_regions(ax, result, units, (lo, hi))
     for t_s in TIME_MARKS_S.values():
         if lo < t_s < hi:
             ax.axvline(t_s, color="#c8c8c8", linewidth=0.7, zorder=0)
@@ -85,24 +102,48 @@ def plot_ttt(result: TTTResult, ax=None):
     top = ax.secondary_xaxis("top")
     top.set_xticks(list(marks.values()), list(marks.keys()), fontsize=8, color="#555555")
     top.tick_params(which="minor", top=False)
-    for name, t_k in result.critical_K.items():
-        y = float(kelvin_to_celsius(t_k))
+    for name, y in lines.items():
         ax.axhline(y, **LINE_STYLE, zorder=1)
-        ax.text(0.995, y, f"{literal(name)} {y:.0f} °C", transform=ax.get_yaxis_transform(), va="bottom", ha="right",
-                fontsize=7.5, color="#333333")
+        ax.text(0.995, y, f"{literal(name)} {y:.0f} °{units}", transform=ax.get_yaxis_transform(), va="bottom",
+                ha="right", fontsize=7.5, color="#333333")
     ax.set_xlabel("hold time, s (log scale)")
-    ax.set_ylabel("hold temperature, °C")
+    ax.set_ylabel(f"hold temperature, °{units}")
     ax.set_title(f"Isothermal transformation: {literal(result.alloy)}", fontsize=11, loc="left")
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
     # One entry per product (its colour) and one per fraction (its line pattern), not one per
     # curve: the key stays short however many curves there are.
-    handles = [Line2D([], [], color=c, linewidth=2.4, label=literal(n)) for n, c in shown_products.items()]
+    handles = [Line2D([], [], color=c, linewidth=2.8 if n == result.overall else 2.0,
+                      label="all products together" if n == result.overall else literal(n))
+               for n, c in shown_products.items()]
     handles += [Line2D([], [], color="#333333", linestyle=styles[k], linewidth=1.4,
                        label=f"{result.fractions[k] * 100:g} % transformed") for k in sorted(shown_fractions)]
+    if result.overall is not None:
+        handles.append(Line2D([], [], color="none", label="(all products: % of what can form at T)"))
     if handles:
         ax.legend(handles=handles, loc="best", fontsize=7.5, frameon=True, framealpha=0.92,
                   ncols=1 if len(handles) < 8 else 2)
     return ax
+
+
+#: The decomposition as a whole is drawn in near-black.
+OVERALL_COLOUR = "#111111"
+REGION_STYLE = {"fontsize": 9, "fontstyle": "italic", "color": "#4a4a4a", "va": "center", "zorder": 2}
+
+
+def _colour(result: TTTResult, index):
+    name = result.products[index]
+    return OVERALL_COLOUR if name == result.overall else PRODUCT_COLOURS[index % len(PRODUCT_COLOURS)]
+
+
+def _label_regions(ax, result: TTTResult, units, x_range):
+    """The phase regions in words, where the computed curves put them."""
+    lo, hi = x_range
+    for text, T_K, t_s, align in result.regions:
+        y = float(to_units(kelvin_to_celsius(T_K), units))
+        if t_s is None:
+            ax.text(0.5, y, literal(text), transform=ax.get_yaxis_transform(), ha=align, **REGION_STYLE)
+        elif lo < t_s < hi:
+            ax.text(t_s, y, literal(text), ha=align, **REGION_STYLE)
 
 
 def _fraction_styles(fractions):
@@ -111,10 +152,10 @@ def _fraction_styles(fractions):
     return [FRACTION_STYLES.get(round(float(x), 6)) or next(extra) for x in fractions]
 
 
-def ttt_figure(result: TTTResult, footer_extra=""):
+def ttt_figure(result: TTTResult, footer_extra="", units="C"):
     """A whole figure for a report: the diagram and a footer with the model and the cautions."""
     fig, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
-    plot_ttt(result, ax)
+    plot_ttt(result, ax, units)
     footer = " · ".join(s for s in (result.footer, footer_extra) if s)
     if result.warnings:
         footer += (f"\n{len(result.warnings)} warning(s) for this input, such as a composition outside a model's "
@@ -125,15 +166,20 @@ def ttt_figure(result: TTTResult, footer_extra=""):
     return fig
 
 
-def _nose_labels(result: TTTResult):
-    """One label per product nose: (product index, temperature °C, text, [(fraction, T °C, t s)])."""
+def _nose_labels(result: TTTResult, units):
+    """One label per product nose: (product index, temperature, text, [(fraction, T, t s)]), T in the units."""
     labels = []
     for i, product in enumerate(result.products):
         n = result.noses[product]
-        name = literal(product)
+        name = "all products" if product == result.overall else literal(product)
         keep = n.inside & n.forms
+        if result.overall is not None and product != result.overall:
+            # where the whole decomposition has the same nose, its label says it once
+            total = result.noses[result.overall]
+            same = (np.abs(total.temperature_K - n.temperature_K) < 1.0) & (np.abs(total.time_s / n.time_s - 1) < 0.05)
+            keep = keep & ~(same & total.inside & total.forms)
         noses = [(float(x), float(T), float(t)) for x, T, t in
-                 zip(result.fractions[keep], n.temperature_C[keep], n.time_s[keep])]
+                 zip(result.fractions[keep], to_units(n.temperature_C[keep], units), n.time_s[keep])]
         if not noses:
             continue
         temps = [T for _, T, _ in noses]
@@ -141,9 +187,9 @@ def _nose_labels(result: TTTResult):
             # with many fractions the label names the standard three (and the markers show all)
             listed = [n for n in noses if round(n[0], 6) in FRACTION_STYLES] if len(noses) > 4 else noses
             times = "\n".join(f"{x * 100:g} %: {format_duration(t)}" for x, _, t in listed or noses)
-            labels.append((i, float(np.mean(temps)), f"{name} nose {np.mean(temps):.0f} °C\n{times}", noses))
+            labels.append((i, float(np.mean(temps)), f"{name} nose {np.mean(temps):.0f} °{units}\n{times}", noses))
         else:
-            labels += [(i, T, f"{name} {x * 100:g} % nose\n{T:.0f} °C, {format_duration(t)}", [(x, T, t)])
+            labels += [(i, T, f"{name} {x * 100:g} % nose\n{T:.0f} °{units}, {format_duration(t)}", [(x, T, t)])
                        for x, T, t in noses]
     return labels
 
@@ -167,16 +213,16 @@ def _spread(positions, gap):
     return out
 
 
-def _mark_noses(ax, result: TTTResult, x_label, line_C):
+def _mark_noses(ax, result: TTTResult, x_label, line_C, units):
     """Mark every nose; labels stack in the empty region left of the earliest curve."""
-    labels = _nose_labels(result)
+    labels = _nose_labels(result, units)
     if not labels:
         return
     heights = [line_C * (lab[2].count("\n") + 1.4) for lab in labels]
     ys = _spread([lab[1] for lab in labels], max(heights))
     for (i, _, text, noses), y in zip(labels, ys):
-        colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
-        marker = PRODUCT_MARKERS[i % len(PRODUCT_MARKERS)]
+        colour = _colour(result, i)
+        marker = "*" if result.products[i] == result.overall else PRODUCT_MARKERS[i % len(PRODUCT_MARKERS)]
         for _, T, t in noses:
             ax.plot(t, T, marker=marker, color=colour, markersize=6.5,
                     markerfacecolor="white", markeredgewidth=1.4, zorder=5)

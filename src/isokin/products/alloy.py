@@ -42,6 +42,10 @@ class Alloy:
         Extrapolations and other doubts about this input.
     provenance : dict
         Model choices and coefficients used (Ms method, kinetic coefficients), for the record.
+    sequence : dict of str to str
+        Product -> the product it waits for in the decomposition (pearlite -> ferrite).
+    parent : str
+        The phase the products form from ("austenite" for steels).
     """
 
     name: str
@@ -56,6 +60,8 @@ class Alloy:
     footer: str = ""
     warnings: tuple = ()
     provenance: dict = field(default_factory=dict)
+    sequence: dict = field(default_factory=dict)
+    parent: str = "untransformed"
 
     @property
     def batch_shape(self) -> tuple:

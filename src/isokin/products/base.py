@@ -107,6 +107,11 @@ class Product(Protocol):
         """dX/dt in 1/s at temperature T_K and fraction X; 0 where it cannot form."""
         ...
 
+    def fraction_after(self, T_K, t_s) -> np.ndarray:
+        """Fraction X of its own completion after an isothermal hold of t_s seconds at T_K;
+        0 where it cannot form (the inverse of :meth:`time_to_fraction`)."""
+        ...
+
     def time_factor(self, T_K) -> np.ndarray:
         """F(T) in s of t = F(T) S(X); ``inf`` where the product cannot form."""
         ...
@@ -149,4 +154,13 @@ class ReportsNucleus(Protocol):
 
     def nucleus_table(self, undercoolings_K) -> dict:
         """Undercooling (K), r* (m), dG* (J), dG*/kT and ln I at undercoolings below its upper temperature."""
+        ...
+
+
+@runtime_checkable
+class HasEquilibriumFraction(Protocol):
+    """A product that stops at an equilibrium fraction of the parent (proeutectoid ferrite)."""
+
+    def equilibrium_fraction(self, T_K) -> np.ndarray:
+        """Share of the parent it reaches at completion at T_K (batch axes lead)."""
         ...

@@ -52,6 +52,7 @@ LI1998_REFERENCE = (
     "Metall. Mater. Trans. B 29 (1998) 661-672"
 )
 LI1998_MODEL = "Li et al. (1998), Metall. Mater. Trans. B 29, 661-672"
+_S_COMPLETE = reaction_integral(1.0)
 
 #: Composition range (mass %) inside which no warning is given. The paper's own stated
 #: range could not be confirmed (see the module docstring); this is an assumption: the
@@ -181,6 +182,9 @@ class Li1998Product:
         below ``lower_K`` means the product cannot form at all.
     lower_K : float or array_like
         Temperature (K) below which the product is not formed (Ms for all three).
+    equilibrium : callable, optional
+        ``equilibrium(T_K)``: the share of austenite the product reaches at completion
+        (the lever rule, for proeutectoid ferrite); None where it takes all the austenite.
 
     Everything broadcasts into one batch shape. The activation energy is divided by R in
     J/(mol K); against Li's R = 1.987 cal/(mol K) this moves times by less than 0.2 %.
@@ -202,8 +206,9 @@ class Li1998Product:
     calibrated_ranges = LI1998_RANGES_MASS_PERCENT
 
     def __init__(self, name, coefficients: LiCoefficients, composition: Composition, grain_size_astm, upper_K,
-                 lower_K):
+                 lower_K, equilibrium=None):
         self.name = name
+        self.equilibrium = equilibrium
         self.coefficients = coefficients
         grain = np.asarray(grain_size_astm, dtype=float)
         upper = np.asarray(upper_K, dtype=float)
@@ -272,9 +277,28 @@ class Li1998Product:
         T, X, q = as_query(T_K, X)
         log_factor, forms = self._log_time_factor(T, q)
         S = reaction_integral(X)
-        with np.errstate(over="ignore"):
+        with np.errstate(over="ignore", invalid="ignore"):  # inf * 0 where S = 0 is discarded
             t = np.where(S > 0.0, np.exp(log_factor) * S, 0.0)
         return np.where(forms, t, np.inf)
+
+    def equilibrium_fraction(self, T_K):
+        """Share of the austenite the product reaches at completion: the lever rule where one
+        was given (proeutectoid ferrite), else all of it."""
+        if self.equilibrium is None:
+            T, q = as_query(T_K)
+            return np.ones(np.broadcast_shapes(T.shape, self._batch_shape + (1,) * max(q - len(self._batch_shape), 0)))
+        return self.equilibrium(T_K)
+
+    def fraction_after(self, T_K, t_s):
+        """Fraction of its own completion after t_s seconds at T_K: S^-1(t / F(T)), 1 once
+        S(1) F(T) has passed (the model completes in finite time); 0 where it cannot form."""
+        T, t, q = as_query(T_K, t_s)
+        log_factor, forms = self._log_time_factor(T, q)
+        with np.errstate(over="ignore", under="ignore", invalid="ignore"):
+            S = np.maximum(t, 0.0) * np.exp(-log_factor)
+        # inf * 0 only for an infinite hold: complete
+        S = np.where(forms & (t > 0.0), np.where(np.isnan(S), _S_COMPLETE, S), 0.0)
+        return reaction_integral_inverse(np.minimum(S, _S_COMPLETE))
 
     def rate(self, T_K, X):
         """dX/dt in 1/s at temperature T_K and fraction X.

@@ -233,6 +233,10 @@ class NucleationGrowthProduct:
         (T, X), f = self._query(T_K, X)
         return jmak.time_to_fraction(X, self._log_rate_constant(T, f), self._exponent(f), f.incubation_time_s)
 
+    def fraction_after(self, T_K, t_s):
+        (T, t), f = self._query(T_K, t_s)
+        return jmak.fraction(t, self._log_rate_constant(T, f), self._exponent(f), f.incubation_time_s)
+
     def rate(self, T_K, X):
         (T, X), f = self._query(T_K, X)
         return jmak.rate(X, self._log_rate_constant(T, f), self._exponent(f))

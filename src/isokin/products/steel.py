@@ -21,6 +21,9 @@ from ..relations.steel_critical import (
     CALIBRATED_RANGES,
     KOISTINEN_MARBURGER_ALPHA_PER_K,
     ae1_andrews_1965,
+    andrews_ae1_C,
+    andrews_ae3_without_carbon_C,
+    lever_rule_ferrite_fraction,
     ae3_andrews_1965,
     bs_steven_haynes_1956,
     eutectoid_carbon_andrews_1965,
@@ -29,6 +32,7 @@ from ..relations.steel_critical import (
     ms_steven_haynes_1956,
 )
 from .alloy import UPPER_MARGIN_K, Alloy
+from .base import as_query, batch_leading
 from .li1998 import LI1998_KINETICS, LI1998_PROVENANCE, LiCoefficients, Li1998Product
 from .martensite import Martensite
 
@@ -66,6 +70,23 @@ CRITICAL_ONLY_ELEMENTS = ("V", "W", "Cu", "Al", "P", "As", "Ti")
 #: The keys of a kinetics override, per product; activation energy in either unit.
 KINETIC_KEYS = ("constant", "undercooling_exponent", "activation_energy_cal_mol", "activation_energy_J_mol",
                 "grain_size_coefficient")
+
+
+class LeverRuleFerrite:
+    """Equilibrium share of proeutectoid ferrite at T (lever rule on Andrews' Ae3), for one
+    steel or a batch, with the batch leading the query as every product's methods do."""
+
+    method = "lever rule on the Ae3 line of Andrews (1965), eutectoid carbon of the same, 0.02 % C in ferrite"
+
+    def __init__(self, composition: Composition):
+        self._arrays = (andrews_ae3_without_carbon_C(composition), andrews_ae1_C(composition),
+                        np.asarray(composition.C), eutectoid_carbon_andrews_1965(composition))
+        self._batch_ndim = len(composition.shape)
+
+    def __call__(self, T_K):
+        T, q = as_query(T_K)
+        arrays = [batch_leading(a, self._batch_ndim, q) for a in self._arrays]
+        return lever_rule_ferrite_fraction(T - 273.15, *arrays)
 
 
 class CriticalTemperature(NamedTuple):
@@ -243,7 +264,9 @@ def li1998_products(composition: Composition, grain_size_astm, ms_method: str | 
     ae3 = np.where(hypoeutectoid, ae3_andrews_1965(composition), ae1)
     bs = bs_steven_haynes_1956(composition)
     uppers = {"ferrite": np.where(hypoeutectoid, ae3, ms), "pearlite": ae1, "bainite": bs}
-    products = [Li1998Product(name, coefficients[name], composition, grain_size_astm, upper, ms)
+    lever = LeverRuleFerrite(composition)
+    products = [Li1998Product(name, coefficients[name], composition, grain_size_astm, upper, ms,
+                              equilibrium=lever if name == "ferrite" else None)
                 for name, upper in uppers.items()]
     martensite = Martensite(ms, ms_method=ms_label)
     km = f"Koistinen-Marburger (1959), alpha = {KOISTINEN_MARBURGER_ALPHA_PER_K} /K, from Ms of {ms_label}"
@@ -425,6 +448,7 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         inputs = {"composition": {k: _record(v) for k, v in mass_percent.items()}, "steel": given}
     provenance = {
         "ms_method": ms_key,
+        "ferrite_equilibrium": LeverRuleFerrite.method,
         "kinetics": {p.name: p.coefficients.as_dict() for p in products},
         "kinetics_overridden": sorted(kinetics or {}),
         "kinetics_note": LI1998_PROVENANCE,
@@ -441,4 +465,6 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         footer=footer,
         warnings=tuple(warnings),
         provenance=provenance,
+        sequence={"pearlite": "ferrite"},
+        parent="austenite",
     )

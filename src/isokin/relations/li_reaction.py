@@ -65,6 +65,32 @@ def _lower_half(y: np.ndarray) -> np.ndarray:
 
 _HALF = float(_lower_half(np.array(0.5)))
 
+# The table both directions use: w = y**0.6 on 4097 nodes clustered towards y = 0 (S is
+# close to linear in w there, S ~ w / 0.6), S(y) by the rule above, and the exact slope
+# dw/dS = 0.6 y**(-0.4 y) (1 - y)**(0.4 y). Cubic Hermite interpolation on it is good to
+# about 1e-14 in S and in y, with no quadrature or root finding per value.
+_TABLE_W = 0.5**0.6 * np.linspace(0.0, 1.0, 4097) ** 3
+_TABLE_Y = _TABLE_W ** (1.0 / 0.6)
+_TABLE_S = _lower_half(_TABLE_Y)
+
+
+def _dw_ds(y):
+    with np.errstate(divide="ignore", invalid="ignore"):
+        value = 0.6 * np.exp(-_EXPONENT * y * np.log(y) + _EXPONENT * y * np.log1p(-y))
+    return np.where(y > 0.0, value, 0.6)
+
+
+_TABLE_SLOPE = _dw_ds(_TABLE_Y)
+
+
+def _hermite(xq, xs, ys, slopes):
+    """Cubic Hermite interpolation of ys(xs) with the given slopes, at xq (xs ascending)."""
+    k = np.clip(np.searchsorted(xs, xq) - 1, 0, xs.size - 2)
+    h = xs[k + 1] - xs[k]
+    u = (xq - xs[k]) / h
+    return ((1.0 + 2.0 * u) * (1.0 - u) ** 2 * ys[k] + u * (1.0 - u) ** 2 * h * slopes[k]
+            + u * u * (3.0 - 2.0 * u) * ys[k + 1] + u * u * (u - 1.0) * h * slopes[k + 1])
+
 
 def reaction_integral(X):
     """Li et al. (1998) reaction term S(X), dimensionless.
@@ -89,10 +115,11 @@ def reaction_integral(X):
     Notes
     -----
     Symmetry f(1 - x) = f(x) of the integrand gives S(X) = 2 S(1/2) - S(1 - X); the part
-    with upper limit <= 1/2 uses a fixed tanh-sinh rule of 73 nodes, so the
-    cost is one vectorised pass whatever X is. Accurate to better than 1e-12 relative
-    against mpmath.quad over the whole range. Distinct values of X are integrated once,
-    so a diagram that asks for three fractions on a large grid stays cheap.
+    with upper limit <= 1/2 is integrated by a fixed tanh-sinh rule of 73 nodes on a table
+    of 4097 fractions (clustered towards 0), and evaluated between them by cubic Hermite
+    interpolation in X**0.6 with the exact slope: about 1e-14 from the rule itself, better
+    than 1e-12 relative against mpmath.quad over the whole range (tested), at a few hundred
+    nanoseconds a value.
 
     Reference: Li, Niebuhr, Meekisho and Atteridge, Metall. Mater. Trans. B 29 (1998)
     661-672.
@@ -107,13 +134,11 @@ def reaction_integral(X):
     X = np.asarray(X, dtype=float)
     if not np.all((X >= 0.0) & (X <= 1.0)):
         raise ValueError("transformed fraction X must lie in [0, 1]")
-    distinct, inverse = np.unique(X, return_inverse=True)
-    upper = distinct > 0.5
-    lower_limit = np.where(upper, 1.0 - distinct, distinct)
-    piece = _lower_half(lower_limit)
+    upper = X > 0.5
+    y = np.where(upper, 1.0 - X, X)
+    piece = _hermite(y**0.6, _TABLE_W, _TABLE_S, 1.0 / _TABLE_SLOPE)
     values = np.where(upper, 2.0 * _HALF - piece, piece)
-    result = values[inverse].reshape(X.shape)
-    return result if result.ndim else float(result)
+    return values if values.ndim else float(values)
 
 
 def reaction_integrand(X):
@@ -163,31 +188,13 @@ def reaction_rate_shape(X):
     return value if value.ndim else float(value)
 
 
-# Inverse: cubic Hermite interpolation of w = y**0.6 against S on 1025 nodes clustered
-# towards y = 0 (S is close to linear in w there, S ~ w / 0.6), with the exact slope
-# dw/dS = 0.6 y**(-0.4 y) (1 - y)**(0.4 y). Better than 1e-12 relative over the whole
-# range, at a few tens of nanoseconds a value: no root finding.
-_TABLE_W = 0.5**0.6 * np.linspace(0.0, 1.0, 1025) ** 3
-_TABLE_Y = _TABLE_W ** (1.0 / 0.6)
-_TABLE_S = _lower_half(_TABLE_Y)
-
-
-def _dw_ds(y):
-    with np.errstate(divide="ignore", invalid="ignore"):
-        value = 0.6 * np.exp(-_EXPONENT * y * np.log(y) + _EXPONENT * y * np.log1p(-y))
-    return np.where(y > 0.0, value, 0.6)
-
-
-_TABLE_SLOPE = _dw_ds(_TABLE_Y)
-
-
 def reaction_integral_inverse(S):
     """The fraction X at which the Li et al. (1998) reaction term reaches S, dimensionless.
 
     The inverse of :func:`reaction_integral`, used where a time is known and the fraction
     is wanted (X from t / F(T) during a hold or along a path). Symmetry gives
     X = 1 - X(2 S(1/2) - S) above S(1/2), so only the lower half is tabulated: cubic
-    Hermite interpolation of y**0.6 against S with its exact slope.
+    Hermite interpolation of y**0.6 against S with its exact slope, on the same table.
 
     Parameters
     ----------
@@ -215,11 +222,6 @@ def reaction_integral_inverse(S):
         raise ValueError(f"reaction term S must lie in [0, {2.0 * _HALF:.6f}]")
     upper = S > _HALF
     s = np.where(upper, 2.0 * _HALF - S, S)
-    k = np.clip(np.searchsorted(_TABLE_S, s) - 1, 0, _TABLE_S.size - 2)
-    h = _TABLE_S[k + 1] - _TABLE_S[k]
-    u = (s - _TABLE_S[k]) / h
-    w = ((1.0 + 2.0 * u) * (1.0 - u) ** 2 * _TABLE_W[k] + u * (1.0 - u) ** 2 * h * _TABLE_SLOPE[k]
-         + u * u * (3.0 - 2.0 * u) * _TABLE_W[k + 1] + u * u * (u - 1.0) * h * _TABLE_SLOPE[k + 1])
-    y = np.clip(w, 0.0, None) ** (1.0 / 0.6)
+    y = np.clip(_hermite(s, _TABLE_S, _TABLE_W, _TABLE_SLOPE), 0.0, None) ** (1.0 / 0.6)
     X = np.where(upper, 1.0 - y, y)
     return X if X.ndim else float(X)

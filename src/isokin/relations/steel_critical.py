@@ -39,7 +39,7 @@ CALIBRATED_RANGES = {
 }
 
 
-def _andrews_ae3_without_carbon_C(c: Composition):
+def andrews_ae3_without_carbon_C(c: Composition):
     """Andrews' Ae3 less its carbon term, in degrees C."""
     return (
         910.0
@@ -58,7 +58,7 @@ def _andrews_ae3_without_carbon_C(c: Composition):
     )
 
 
-def _andrews_ae1_C(c: Composition):
+def andrews_ae1_C(c: Composition):
     return 723.0 - 10.7 * c.Mn - 16.9 * c.Ni + 29.1 * c.Si + 16.9 * c.Cr + 290.0 * c.As + 6.38 * c.W
 
 
@@ -95,7 +95,7 @@ def ae1_andrews_1965(composition: Composition):
     >>> round(float(ae1_andrews_1965(steel)) - 273.15, 2)
     721.72
     """
-    return celsius_to_kelvin(_andrews_ae1_C(composition))
+    return celsius_to_kelvin(andrews_ae1_C(composition))
 
 
 def ae3_andrews_1965(composition: Composition):
@@ -134,7 +134,7 @@ def ae3_andrews_1965(composition: Composition):
     808.5
     """
     return celsius_to_kelvin(
-        _andrews_ae3_without_carbon_C(composition) - 203.0 * np.sqrt(composition.C)
+        andrews_ae3_without_carbon_C(composition) - 203.0 * np.sqrt(composition.C)
     )
 
 
@@ -174,8 +174,63 @@ def eutectoid_carbon_andrews_1965(composition: Composition):
     >>> round(float(eutectoid_carbon_andrews_1965(Composition.from_dict({}))), 4)
     0.8486
     """
-    gap_C = _andrews_ae3_without_carbon_C(composition) - _andrews_ae1_C(composition)
+    gap_C = andrews_ae3_without_carbon_C(composition) - andrews_ae1_C(composition)
     return (np.maximum(gap_C, 0.0) / 203.0) ** 2
+
+
+#: Carbon in ferrite at the eutectoid temperature, mass % (about 0.02 %: the Fe-C diagram,
+#: common practice).
+FERRITE_CARBON_MASS_PERCENT = 0.02
+
+
+def ferrite_fraction_lever_rule_andrews(T_K, composition: Composition, ferrite_carbon=FERRITE_CARBON_MASS_PERCENT):
+    """Equilibrium share of proeutectoid ferrite at T by the lever rule on Andrews' Ae3 line.
+
+    Between Ae1 and Ae3 the austenite in equilibrium with ferrite holds the carbon at which
+    Andrews' Ae3 equals T,
+
+    .. math:: c_\\gamma(T) = \\left(\\frac{Ae_3^{(C=0)} - T}{203}\\right)^2 \\quad (^\\circ C),
+
+    and the lever rule gives :math:`f_\\alpha = (c_\\gamma - c_0) / (c_\\gamma - c_\\alpha)`. At
+    and below Ae1 the austenite is eutectoid (:func:`eutectoid_carbon_andrews_1965`), so the
+    proeutectoid share stays at its Ae1 value and the rest becomes pearlite or bainite.
+
+    Parameters
+    ----------
+    T_K : float or array_like
+        Hold temperature, K (broadcasts against the composition's batch).
+    composition : Composition
+        The steel (mass %).
+    ferrite_carbon : float, optional
+        Carbon in ferrite, mass % (default 0.02, common practice).
+
+    Returns
+    -------
+    float ndarray
+        Share of the austenite that becomes proeutectoid ferrite, 0 at and above Ae3 and
+        for carbon at or above the eutectoid content.
+
+    Examples
+    --------
+    >>> steel = Composition.from_dict({"C": 0.4})
+    >>> round(float(ferrite_fraction_lever_rule_andrews(celsius_to_kelvin(700.0), steel)), 3)
+    0.541
+    """
+    return lever_rule_ferrite_fraction(
+        np.asarray(T_K, dtype=float) - 273.15, andrews_ae3_without_carbon_C(composition), andrews_ae1_C(composition),
+        composition.C, eutectoid_carbon_andrews_1965(composition), ferrite_carbon)
+
+
+def lever_rule_ferrite_fraction(T_C, ae3_without_carbon_C, ae1_C, carbon, eutectoid_carbon,
+                                ferrite_carbon=FERRITE_CARBON_MASS_PERCENT):
+    """The lever rule of :func:`ferrite_fraction_lever_rule_andrews` from its ingredients (°C, mass %).
+
+    Everything broadcasts; a product holding a batch passes its arrays with the batch leading.
+    """
+    c_gamma = np.where(T_C > ae1_C, (np.maximum(ae3_without_carbon_C - T_C, 0.0) / 203.0) ** 2, eutectoid_carbon)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        share = (c_gamma - carbon) / (c_gamma - ferrite_carbon)
+    return np.where((carbon < eutectoid_carbon) & (c_gamma > carbon), np.clip(np.nan_to_num(share), 0.0, 1.0), 0.0)
 
 
 def ms_andrews_1965_linear(composition: Composition):

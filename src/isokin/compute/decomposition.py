@@ -1,0 +1,257 @@
+"""The decomposition of one parent phase into its products: what forms when, and how much.
+
+Products share one parent (austenite, for steels). Two rules combine them:
+
+- **Sequence.** A product may wait for another (``Alloy.sequence``): pearlite waits for
+  proeutectoid ferrite, as in Kirkaldy's scheme that Li et al. (1998) build on (the rule as
+  recalled from those papers, not checked against their text). It begins once the other
+  has reached :data:`WAIT_FRACTION` of its own completion at that temperature, and its
+  isothermal clock starts then.
+- **Sharing.** Products that run at the same time share the parent by Avrami's
+  extended-volume rule for concurrent reactions (M. Avrami, J. Chem. Phys. 8 (1940) 212;
+  as used for simultaneous transformations, e.g. J. S. Kirkaldy and D. Venugopalan (1983),
+  from memory): with each product's own fraction a_i (what it would reach alone, capped at
+  its equilibrium share, such as the lever-rule ferrite), the total is
+  1 - prod(1 - a_i), and product i takes dX_i = prod_{j != i} (1 - a_j) da_i, which is the
+  same as dX_i = (1 - X) dY_i in the extended fractions Y_i = -ln(1 - a_i). One product
+  alone reduces exactly to its own curve. Below Bs, bainite thus shares the austenite with
+  ferrite and pearlite from the start of the hold.
+
+What remains of the parent after a hold is quenched: martensite by Koistinen-Marburger from
+Ms (on the austenite as it is; the carbon enrichment by ferrite is not followed), the rest
+is retained austenite. Every function here broadcasts over temperatures and times with a
+batch of alloys leading, and loops in Python only over the handful of products.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..products.base import as_query
+
+#: A product that waits for another begins when that one has reached this share of its own
+#: completion (the full completion takes infinitely long in JMAK).
+WAIT_FRACTION = 0.99
+#: Gauss-Legendre nodes for each product's share of a concurrent decomposition.
+_NODES, _WEIGHTS = np.polynomial.legendre.leggauss(24)
+_ILLINOIS_STEPS = 40
+
+
+def _caps(alloy, T):
+    """Per product: the share of the parent it reaches alone at completion (0 where it cannot form)."""
+    caps = {}
+    for p in alloy.products:
+        forms = np.isfinite(p.time_factor(T))
+        cap = p.equilibrium_fraction(T) if hasattr(p, "equilibrium_fraction") else 1.0
+        caps[p.name] = np.where(forms, cap, 0.0)
+    return caps
+
+
+def _delays(alloy, T, caps):
+    """Per product: the time (s) at which it may begin; 0 unless it waits for another."""
+    delays = {}
+    by_name = {p.name: p for p in alloy.products}
+    for p in alloy.products:
+        waits_for = alloy.sequence.get(p.name)
+        if waits_for is None:
+            delays[p.name] = np.zeros(np.shape(caps[p.name]))
+            continue
+        t_wait = by_name[waits_for].time_to_fraction(T, WAIT_FRACTION)
+        delays[p.name] = np.where(caps[waits_for] > 0.0, t_wait, 0.0)
+    return delays
+
+
+class Decomposition:
+    """The decomposition of an alloy's parent at hold temperatures T_K (batch axes leading).
+
+    Parameters
+    ----------
+    alloy : Alloy
+        Its products, their sequence and martensite.
+    T_K : array_like
+        Hold temperatures, K: a query as the products take it (see products/base.py).
+    """
+
+    def __init__(self, alloy, T_K):
+        self.alloy = alloy
+        self.T, _ = as_query(T_K)
+        self.caps = _caps(alloy, self.T)
+        self.delays = _delays(alloy, self.T, self.caps)
+
+    @property
+    def transformable(self):
+        """Share of the parent that can transform at T, given time: 1 - prod(1 - cap_i)."""
+        remaining = 1.0
+        for cap in self.caps.values():
+            remaining = remaining * (1.0 - cap)
+        return 1.0 - remaining
+
+    def own_fractions(self, t_s, extra_axes=0):
+        """Each product's own share a_i(t) of the parent, alone, at hold time t_s."""
+        T = self.T.reshape(self.T.shape + (1,) * extra_axes)
+        out = {}
+        for p in self.alloy.products:
+            cap = self.caps[p.name].reshape(self.caps[p.name].shape + (1,) * extra_axes)
+            start = self.delays[p.name].reshape(self.delays[p.name].shape + (1,) * extra_axes)
+            out[p.name] = cap * p.fraction_after(T, np.maximum(t_s - start, 0.0))
+        return out
+
+    def total(self, t_s, extra_axes=0):
+        """Share of the parent transformed after t_s seconds: 1 - prod(1 - a_i)."""
+        remaining = 1.0
+        for a in self.own_fractions(t_s, extra_axes).values():
+            remaining = remaining * (1.0 - a)
+        return 1.0 - remaining
+
+    def time_to_total(self, share):
+        """Seconds until the total reaches ``share`` of what can transform at T (0 < share < 1);
+        ``inf`` where nothing can transform. Broadcasts ``share`` against T."""
+        W = self.transformable
+        target = np.asarray(share, dtype=float) * W
+        shape = np.broadcast_shapes(np.shape(target), self.T.shape)
+        target = np.broadcast_to(target, shape)
+        # Brackets from each product alone: the total is at least any one product's share,
+        # and at most the sum of them.
+        active = sum((cap > 0.0).astype(float) for cap in self.caps.values())
+        hi = np.full(shape, np.inf)
+        lo = np.full(shape, np.inf)
+        for p in self.alloy.products:
+            cap, start = self.caps[p.name], self.delays[p.name]
+            with np.errstate(divide="ignore", invalid="ignore"):
+                need_hi = np.where(cap > 0.0, target / cap, np.inf)
+                need_lo = np.where(cap > 0.0, target / (np.maximum(active, 1.0) * cap), np.inf)
+            for need, bound in ((need_hi, hi), (need_lo, lo)):
+                ok = need < 1.0
+                t = start + p.time_to_fraction(self.T, np.where(ok, need, 0.5))
+                bound[...] = np.minimum(bound, np.where(ok, t, np.inf))
+        solvable = (W > 0.0) & np.isfinite(hi) & np.isfinite(lo)
+        lo = np.where(solvable, np.maximum(lo, 1e-300), 1.0)
+        hi = np.where(solvable, np.maximum(hi, lo), 1.0)
+        root = self._illinois(np.log(lo), np.log(hi), target)
+        return np.where(solvable, np.exp(root), np.inf)
+
+    def _illinois(self, a, b, target):
+        """Vectorised Illinois regula falsi for total(e^u) = target on [a, b] (ln s), to 1e-10 in ln t."""
+        def g(u):
+            return self.total(np.exp(u)) - target
+
+        fa, fb = g(a), g(b)
+        for _ in range(_ILLINOIS_STEPS):
+            with np.errstate(divide="ignore", invalid="ignore"):
+                c = np.where(fb != fa, b - fb * (b - a) / (fb - fa), 0.5 * (a + b))
+            c = np.where(np.isfinite(c) & (np.minimum(a, b) <= c) & (c <= np.maximum(a, b)), c, 0.5 * (a + b))
+            step = np.abs(c - b)
+            fc = g(c)
+            flip = fc * fb < 0.0
+            a, fa = np.where(flip, b, a), np.where(flip, fb, 0.5 * fa)
+            b, fb = c, fc
+            if np.all((step < 1e-10) | (fb == 0.0)):
+                break
+        return b
+
+    def shares(self, t_s):
+        """Each product's share of the parent after t_s seconds (they sum to :meth:`total`)."""
+        t = np.asarray(t_s, dtype=float)
+        own_end = self.own_fractions(t)
+        raw = {}
+        for p in self.alloy.products:
+            cap = self.caps[p.name]
+            x_end = np.where(cap > 0.0, own_end[p.name] / np.where(cap > 0.0, cap, 1.0), 0.0)
+            # the product's own fraction x runs over Gauss-Legendre nodes in [0, x_end]
+            x = x_end[..., None] * (0.5 * (_NODES + 1.0))
+            T = self.T[..., None]
+            t_at = self.delays[p.name][..., None] + p.time_to_fraction(T, x)
+            others = 1.0
+            for q in self.alloy.products:
+                if q is p:
+                    continue
+                start = self.delays[q.name][..., None]
+                others = others * (1.0 - self.caps[q.name][..., None]
+                                   * q.fraction_after(T, np.maximum(np.where(np.isfinite(t_at), t_at, 0.0) - start, 0.0)))
+            raw[p.name] = cap * x_end * 0.5 * np.sum(others * _WEIGHTS, axis=-1)
+        total = self.total(t)
+        summed = sum(raw.values())
+        with np.errstate(divide="ignore", invalid="ignore"):
+            scale = np.where(summed > 0.0, total / summed, 0.0)
+        return {name: value * scale for name, value in raw.items()}
+
+
+class OverallCurve:
+    """The decomposition as a whole, seen as one more curve: the time until the total reaches
+    a share of what can transform at each temperature. It answers ``time_to_fraction`` like a
+    product, so the diagram solver and its nose refinement treat it as one."""
+
+    def __init__(self, alloy):
+        from ..results import OVERALL
+
+        self.alloy = alloy
+        self.name = OVERALL
+        self.model = (f"decomposition of {alloy.parent}: sequence {_sequence_text(alloy)}; concurrent products "
+                      "share the parent by the extended-volume rule; fraction = share of what can transform at T")
+        self.batch_shape = alloy.batch_shape
+
+    @property
+    def upper_K(self):
+        return np.max(np.stack([np.broadcast_to(p.upper_K, self.batch_shape) for p in self.alloy.products]), axis=0)
+
+    def time_to_fraction(self, T_K, X):
+        return Decomposition(self.alloy, T_K).time_to_total(X)
+
+
+def _sequence_text(alloy):
+    if not alloy.sequence:
+        return "none (all concurrent)"
+    return ", ".join(f"{after} after {before} reaches {WAIT_FRACTION * 100:g} %"
+                     for after, before in alloy.sequence.items())
+
+
+#: A product or the untransformed parent appears in a region's name from this share on.
+REGION_SHARE = 0.05
+#: A region label keeps this share of the temperature range clear of the critical lines.
+REGION_ROOM = 0.025
+
+
+def region_labels(alloy, grid_K, overall_times, overall_noses, noses):
+    """Where to write the phase regions of a single alloy's diagram, from its computed curves.
+
+    Returns a tuple of (text, temperature K, time s or None, alignment): the parent left of
+    the start curve above its nose (the text ends there: "right"); what the parent has
+    become right of the finish curve at each product's nose and between consecutive upper
+    temperatures (austenite + ferrite between Ae1 and Ae3, where the band is wide enough;
+    the text starts there: "left"); martensite below Ms (time None: mid-axis, "center").
+    """
+    labels = []
+    start, finish = overall_times[0], overall_times[-1]
+    ok = np.isfinite(start)
+    if ok.sum() >= 2 and bool(overall_noses.inside[0]):
+        T_nose = float(overall_noses.temperature_K[0])
+        T_parent = T_nose + 0.55 * (grid_K[-1] - T_nose)
+        t_start = np.exp(np.interp(T_parent, grid_K[ok], np.log(start[ok])))
+        labels.append((alloy.parent, T_parent, t_start / 1.6, "right"))
+    uppers = sorted({min(float(np.max(p.upper_K)), float(grid_K[-1])) for p in alloy.products
+                     if grid_K[0] < np.max(p.upper_K) <= grid_K[-1] + 1.0})
+    candidates = [float(noses[p.name].temperature_K[len(noses[p.name].time_s) // 2]) for p in alloy.products
+                  if noses[p.name].forms.any() and bool(noses[p.name].inside[len(noses[p.name].time_s) // 2])]
+    candidates += [0.5 * (a + b) for a, b in zip(uppers, uppers[1:])]
+    done = np.isfinite(finish)
+    seen = set()
+    lines = [float(v) for v in alloy.critical_K.values() if np.isfinite(v)]
+    room = REGION_ROOM * (grid_K[-1] - grid_K[0])
+    for T in sorted(candidates, reverse=True):
+        if done.sum() < 2 or not grid_K[0] < T < grid_K[-1] or any(abs(T - line) < room for line in lines):
+            continue
+        t_end = float(np.exp(np.interp(T, grid_K[done], np.log(finish[done]))))
+        held = Decomposition(alloy, np.array(T))
+        shares = held.shares(np.array(3.0 * t_end))
+        parts = [alloy.parent] if 1.0 - float(held.total(np.array(3.0 * t_end))) >= REGION_SHARE else []
+        parts += [name for name, share in shares.items() if float(share) >= REGION_SHARE]
+        text = " + ".join(parts)
+        if parts and text not in seen:
+            seen.add(text)
+            labels.append((text, T, 1.6 * t_end, "left"))
+    if alloy.martensite is not None and "Ms" in alloy.critical_K:
+        ms = float(alloy.critical_K["Ms"])
+        if grid_K[0] < ms:
+            labels.append((alloy.martensite.name, 0.5 * (ms + max(grid_K[0], float(alloy.critical_K.get("M90", grid_K[0])))),
+                           None, "center"))
+    return tuple(labels)
