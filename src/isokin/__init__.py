@@ -18,7 +18,9 @@ _EXPORTS = {
     "steel": "isokin.products.steel",
     "Alloy": "isokin.products.alloy",
     "ttt": "isokin.compute.ttt",
+    "hold": "isokin.compute.decomposition",
     "TTTResult": "isokin.results",
+    "HoldResult": "isokin.results",
     "plot_ttt": "isokin.plot.ttt",
     "InputError": "isokin.errors",
 }

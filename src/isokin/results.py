@@ -198,3 +198,48 @@ class TTTResult:
             return None
         t_c = self.temperatures_C[ok]
         return float(t_c.min()), float(t_c.max())
+
+
+@dataclass(frozen=True)
+class HoldResult:
+    """The microstructure after isothermal holds and a quench, as data.
+
+    Attributes
+    ----------
+    alloy : str
+    temperatures_C, times_s : ndarray
+        The holds, broadcast to one shape P.
+    quench_to_C : float
+    fractions : dict of str to ndarray
+        Phase -> share of the part after the hold and the quench (shape P); they sum to 1.
+    milestone_fractions : ndarray, shape (M,)
+        The fractions of the milestones (0.01, 0.5, 0.99).
+    milestones_s : dict of str to ndarray
+        Product (and "total") -> seconds to each milestone at each temperature, shape P + (M,);
+        a product's milestones are shares of its own completion, the total's of what can
+        transform at that temperature (``transformable``); ``inf`` where never.
+    transformable : ndarray
+        Share of the part that can transform at each temperature, given time.
+    warnings : tuple of str
+    inputs, provenance : dict
+    """
+
+    alloy: str
+    temperatures_C: np.ndarray
+    times_s: np.ndarray
+    quench_to_C: float
+    fractions: dict
+    milestone_fractions: np.ndarray
+    milestones_s: dict
+    transformable: np.ndarray
+    warnings: tuple = ()
+    inputs: dict = field(default_factory=dict)
+    provenance: dict = field(default_factory=dict)
+
+    def to_frame(self):
+        """Wide pandas table: temperature_C, time_s and one column per phase (shares of the part)."""
+        import pandas as pd
+
+        columns = {"temperature_C": np.ravel(self.temperatures_C), "time_s": np.ravel(self.times_s)}
+        columns.update({name: np.ravel(np.broadcast_to(v, np.shape(self.times_s))) for name, v in self.fractions.items()})
+        return pd.DataFrame(columns)

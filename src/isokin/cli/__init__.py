@@ -49,6 +49,16 @@ class FigureFormat(str, Enum):
     pdf = "pdf"
 
 
+class Units(str, Enum):
+    C = "C"
+    F = "F"
+
+
+def _in_units(t_c: float, units: "Units") -> str:
+    """A temperature for a printed table: °C or °F."""
+    return f"{t_c * 1.8 + 32.0 if units == Units.F else t_c:.1f} °{units.value}"
+
+
 def fail(error):
     """One line on stderr and exit 2; a library key not from a file is named as its option."""
     if isinstance(error, InputError) and not error.source:
@@ -138,14 +148,14 @@ def _load(alloy_file: Optional[Path], inline: Inline):
     return alloy.replace(warnings=(*notes, *alloy.warnings)), stem
 
 
-def _print_noses(result):
-    typer.echo(f"{'product':<14}{'fraction':>9}  {'nose °C':>9}  nose time")
+def _print_noses(result, units):
+    typer.echo(f"{'product':<14}{'fraction':>9}  {'nose':>10}  nose time")
     for name in result.products:
         n = result.noses[name]
         for k, x in enumerate(result.fractions):
             if n.forms[k]:
                 where = "" if n.inside[k] else "  (at the edge of the range: the true nose lies outside)"
-                typer.echo(f"{name:<14}{x:>9.3g}  {float(n.temperature_C[k]):>9.1f}  "
+                typer.echo(f"{name:<14}{x:>9.3g}  {_in_units(float(n.temperature_C[k]), units):>10}  "
                            f"{format_duration(float(n.time_s[k]))}{where}")
     for name in result.products:
         if not result.noses[name].forms.any():
@@ -157,22 +167,33 @@ def _warn(result):
         typer.echo(f"isokin: warning: {line}", err=True)
 
 
-def _output_paths(out: Path, stem: str, fmt: str, overwrite: bool):
+def _output_paths(out: Path, names: dict, overwrite: bool):
+    """The output files by role, in ``out`` (created); InputError where one exists without --overwrite."""
     try:
         out.mkdir(parents=True, exist_ok=True)
     except OSError as exc:
         raise InputError(None, "--out", f"cannot create folder {out} ({exc.strerror})") from None
     if not out.is_dir() or not os.access(out, os.W_OK | os.X_OK):
         raise InputError(None, "--out", f"folder {out} is not writable; choose another with --out")
-    paths = {
-        "figure": out / f"{stem}.{fmt}",
-        "curves": out / f"{stem}-curves.csv",
-        "summary": out / f"{stem}-summary.json",
-    }
+    paths = {role: out / name for role, name in names.items()}
     existing = [str(p) for p in paths.values() if p.exists() or p.is_symlink()]
     if existing and not overwrite:
         raise InputError(None, "--out", f"{existing[0]} exists; pass --overwrite to replace it, or choose another --out")
     return paths
+
+
+def _write(writers: dict, out: Path, overwrite: bool):
+    """All files of a run, together or none; one line and exit 2 when that fails."""
+    from ..io.export import write_outputs
+
+    try:
+        write_outputs(writers, overwrite=overwrite)
+    except FileExistsError as exc:
+        fail(f"--out: {exc.filename} appeared while writing; nothing was written; pass --overwrite or choose "
+             "another --out")
+    except OSError as exc:
+        where = f": {exc.filename}" if getattr(exc, "filename", None) else ""
+        fail(f"--out: cannot write into {out} ({exc.strerror or exc}{where}); nothing was written")
 
 
 AlloyArg = Annotated[
@@ -200,6 +221,10 @@ NameOpt = Annotated[
     Optional[str],
     typer.Option("--name", help="Name of the heat, with --composition; also names the output files."),
 ]
+UnitsOpt = Annotated[Units, typer.Option("--units", help="Temperatures of the figure and printed tables: C or F "
+                                          "(files keep °C).")]
+OutOpt = Annotated[Path, typer.Option("--out", help="Folder for the output files.")]
+OverwriteOpt = Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")]
 
 
 @app.command()
@@ -210,7 +235,7 @@ def diagram(
     austenitizing_c: AustenitizingOpt = None,
     ms_method: MsMethodOpt = None,
     name: NameOpt = None,
-    out: Annotated[Path, typer.Option("--out", help="Folder for the figure, CSV and JSON.")] = Path("isokin-out"),
+    out: OutOpt = Path("isokin-out"),
     fraction: Annotated[
         Optional[list[float]],
         typer.Option("--fraction", parser=_decimal, metavar="NUMBER", help="Extra transformed fraction to draw (0-1), repeatable; 0.01, 0.5, 0.99 always."),
@@ -222,7 +247,8 @@ def diagram(
     points: Annotated[Optional[int], typer.Option("--points", parser=_whole, metavar="N",
                                                   help="Hold temperatures in the grid (3 to 5,000).")] = None,
     fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
-    overwrite: Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")] = False,
+    overwrite: OverwriteOpt = False,
+    units: UnitsOpt = Units.C,
 ):
     """Draw the isothermal diagram (C-curves at 1, 50, 99 % and their noses) and export it.
 
@@ -235,7 +261,8 @@ def diagram(
         alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
         grid = alloy_grid(alloy, tmin_c, tmax_c, points)
         fr = check_fractions(default_fractions(fraction or ()), key="fractions")
-        paths = _output_paths(out, stem, fmt.value, overwrite)
+        paths = _output_paths(out, {"figure": f"{stem}.{fmt.value}", "curves": f"{stem}-curves.csv",
+                                    "summary": f"{stem}-summary.json"}, overwrite)
     except InputError as exc:
         fail(exc)
     result = ttt(alloy, temperatures_C=kelvin_to_celsius(grid), fractions=fr)
@@ -244,28 +271,22 @@ def diagram(
     import matplotlib
 
     matplotlib.use("Agg")
-    from ..io.export import write_curves_csv, write_figure, write_outputs, write_summary_json
+    from ..io.export import write_curves_csv, write_figure, write_summary_json
     from ..plot.ttt import ttt_figure
 
     import matplotlib.pyplot as plt
 
-    figure = ttt_figure(result)
+    figure = ttt_figure(result, units=units.value)
     try:
-        write_outputs({
+        _write({
             paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
             paths["curves"]: lambda p: write_curves_csv(result, p),
             paths["summary"]: lambda p: write_summary_json(result, p),
-        }, overwrite=overwrite)
-    except FileExistsError as exc:
-        fail(f"--out: {exc.filename} appeared while writing; nothing was written; pass --overwrite or choose "
-             "another --out")
-    except OSError as exc:
-        where = f": {exc.filename}" if getattr(exc, "filename", None) else ""
-        fail(f"--out: cannot write into {out} ({exc.strerror or exc}{where}); nothing was written")
+        }, out, overwrite)
     finally:
         plt.close(figure)
     typer.echo(f"{alloy.name}: {alloy.model}")
-    _print_noses(result)
+    _print_noses(result, units)
     for p in paths.values():
         typer.echo(f"wrote {p}")
     typer.echo(CAUTION)
@@ -279,6 +300,7 @@ def check(
     austenitizing_c: AustenitizingOpt = None,
     ms_method: MsMethodOpt = None,
     name: NameOpt = None,
+    units: UnitsOpt = Units.C,
 ):
     """Validate an alloy and print what follows from it: critical temperatures, nuclei, noses."""
     from ..compute.ttt import ttt
@@ -292,17 +314,18 @@ def check(
     _warn(result)
     typer.echo(f"{alloy.name}: {alloy.model}; the input is valid")
     for line, t_k in alloy.critical_K.items():
-        typer.echo(f"  {line:<16}{kelvin_to_celsius(float(t_k)):8.1f} °C   {alloy.critical_methods.get(line, '')}")
+        typer.echo(f"  {line:<16}{_in_units(kelvin_to_celsius(float(t_k)), units):>10}   "
+                   f"{alloy.critical_methods.get(line, '')}")
     for product in alloy.products:
         if isinstance(product, ReportsNucleus):
-            _print_nuclei(product)
-    _print_noses(result)
+            _print_nuclei(product, units)
+    _print_noses(result, units)
     typer.echo(CAUTION)
 
 
-def _print_nuclei(product):
+def _print_nuclei(product, units):
     rows = product.nucleus_table((10.0, 50.0, 100.0, 200.0))
-    typer.echo(f"  {product.name}: critical nucleus below {kelvin_to_celsius(float(product.upper_K)):.1f} °C")
+    typer.echo(f"  {product.name}: critical nucleus below {_in_units(kelvin_to_celsius(float(product.upper_K)), units)}")
     typer.echo(f"    {'undercooling K':>14}  {'r* nm':>9}  {'dG* J':>10}  {'dG*/kT':>8}  {'ln I':>8}")
     for dt, r, barrier, barrier_kt, log_i in zip(*rows.values()):
         typer.echo(f"    {dt:>14.0f}  {_cell(r * 1e9, 9)}  {_cell(barrier, 10)}  {_cell(barrier_kt, 8)}  "
@@ -314,6 +337,92 @@ def _print_nuclei(product):
 def _cell(value, width):
     """A number of the nucleus table; where none exists (no stable nucleus there), the word."""
     return f"{value:>{width}.3g}" if math.isfinite(value) else f"{'none':>{width}}"
+
+
+def _durations(times: list, grid: Optional[str]) -> list:
+    """Hold times in seconds from --time values and a --times START..END/N grid (log-spaced)."""
+    from ..io.schema import parse_duration
+
+    seconds = []
+    for text in times or []:
+        value = parse_duration(text)
+        if value is None:
+            raise InputError(None, "--time", f"{text!r} is not a duration; write e.g. 90s, 30min, 2h, 1.5d or seconds")
+        seconds.append(value)
+    if grid is not None:
+        span, _, count = grid.partition("/")
+        start, sep, end = span.partition("..")
+        first, last = parse_duration(start), parse_duration(end)
+        from ..io.schema import parse_number
+
+        n = parse_number(count, integer=True) if count else None
+        if not sep or first is None or last is None or n is None or not (0 < first < last) or not 2 <= n <= 200:
+            raise InputError(None, "--times", f"{grid!r} is not START..END/N, e.g. 10s..8h/12 (2 to 200 times, "
+                             "log-spaced, START above 0)")
+        import numpy as np
+
+        seconds += list(np.geomspace(first, last, n))
+    if not seconds:
+        raise InputError(None, "--time", "give the hold time, e.g. --time 30min (repeatable), or --times 10s..8h/12")
+    return sorted(seconds)
+
+
+@app.command()
+def hold(
+    alloy_file: AlloyArg = None,
+    temperature_c: Annotated[Optional[float], typer.Option("--temperature-c", parser=_decimal, metavar="NUMBER",
+                                                           help="Hold temperature, °C.")] = None,
+    time: Annotated[Optional[list[str]], typer.Option("--time", metavar="DURATION",
+                    help="Hold time: 90s, 30min, 2h, 1.5d or seconds; repeatable.")] = None,
+    times: Annotated[Optional[str], typer.Option("--times", metavar="START..END/N",
+                     help="A log-spaced grid of hold times, e.g. 10s..8h/12.")] = None,
+    quench_to_c: Annotated[Optional[float], typer.Option("--quench-to-c", parser=_decimal, metavar="NUMBER",
+                                                         help="Quench after the hold to this, °C (default 20).")] = None,
+    composition: CompositionOpt = None,
+    grain_size: GrainOpt = None,
+    austenitizing_c: AustenitizingOpt = None,
+    ms_method: MsMethodOpt = None,
+    name: NameOpt = None,
+    out: OutOpt = Path("isokin-out"),
+    overwrite: OverwriteOpt = False,
+    units: UnitsOpt = Units.C,
+):
+    """What a hold gives: the fractions after holding at a temperature and quenching.
+
+    Prints the fractions of each product, martensite and retained austenite (steels) for
+    each hold time, and the times to 1, 50 and 99 % at that temperature; writes
+    <stem>-hold.json into --out.
+    """
+    from ..compute.decomposition import hold as hold_at
+
+    try:
+        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        if temperature_c is None:
+            raise InputError(None, "--temperature-c", "give the hold temperature, e.g. --temperature-c 450")
+        seconds = _durations(time, times)
+        options = {} if quench_to_c is None else {"quench_to_C": quench_to_c}
+        result = hold_at(alloy, temperature_c, seconds, **options)
+        paths = _output_paths(out, {"hold": f"{stem}-hold.json"}, overwrite)
+    except InputError as exc:
+        fail(exc)
+    _warn(result)
+    from ..io.export import write_hold_json
+
+    _write({paths["hold"]: lambda p: write_hold_json(result, p)}, out, overwrite)
+    typer.echo(f"{alloy.name}: hold at {_in_units(temperature_c, units)}, then quench to "
+               f"{_in_units(result.quench_to_C, units)}")
+    names = list(result.fractions)
+    typer.echo(f"  {'hold time':>10}  " + "  ".join(f"{n:>{max(len(n), 7)}}" for n in names))
+    for k, t in enumerate(result.times_s):
+        typer.echo(f"  {format_duration(float(t)):>10}  " + "  ".join(
+            f"{float(result.fractions[n][k]) * 100:>{max(len(n), 7) - 2}.1f} %" for n in names))
+    typer.echo(f"  times at {_in_units(temperature_c, units)} to 1 %, 50 %, 99 % (products: of their own completion; "
+               f"total: of the {float(result.transformable[0]) * 100:.0f} % that can transform here)")
+    for product, marks in result.milestones_s.items():
+        cells = [format_duration(float(v)) if math.isfinite(v) and v <= 1e9 else "never" for v in marks[0]]
+        typer.echo(f"  {product:<12}" + "".join(f"{c:>12}" for c in cells))
+    typer.echo(f"wrote {paths['hold']}")
+    typer.echo(CAUTION)
 
 
 @app.command()

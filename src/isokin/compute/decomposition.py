@@ -176,6 +176,30 @@ class Decomposition:
         return {name: value * scale for name, value in raw.items()}
 
 
+class ProductCurve:
+    """One product's curve within the decomposition: the time until it reaches a share X of
+    the parent by itself, after its turn in the sequence (``delay + t(X / cap)``; never where
+    its equilibrium share ``cap`` is X or less). With no sequence and no equilibrium share
+    it is the product's own curve, unchanged."""
+
+    def __init__(self, alloy, product):
+        self.alloy, self.product = alloy, product
+        self.name, self.model, self.batch_shape = product.name, product.model, product.batch_shape
+
+    @property
+    def upper_K(self):
+        return self.product.upper_K
+
+    def time_to_fraction(self, T_K, X):
+        d = Decomposition(self.alloy, T_K)
+        cap, delay = d.caps[self.name], d.delays[self.name]
+        X = np.asarray(X, dtype=float)
+        reachable = cap > X
+        with np.errstate(divide="ignore", invalid="ignore"):
+            own = np.where(reachable, X / np.where(reachable, cap, 1.0), 0.5)
+        return np.where(reachable, delay + self.product.time_to_fraction(d.T, own), np.inf)
+
+
 class OverallCurve:
     """The decomposition as a whole, seen as one more curve: the time until the total reaches
     a share of what can transform at each temperature. It answers ``time_to_fraction`` like a
@@ -255,3 +279,76 @@ def region_labels(alloy, grid_K, overall_times, overall_noses, noses):
             labels.append((alloy.martensite.name, 0.5 * (ms + max(grid_K[0], float(alloy.critical_K.get("M90", grid_K[0])))),
                            None, "center"))
     return tuple(labels)
+
+
+#: Fractions of the milestones a hold reports for each product and for the total.
+MILESTONES = (0.01, 0.5, 0.99)
+
+
+def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
+    """The microstructure after an isothermal hold and a quench: the fractions of each product,
+    martensite and retained austenite (steels), or of the untransformed parent.
+
+    Parameters
+    ----------
+    alloy : Alloy
+        One alloy (or a batch, with the batch leading the temperature and time arrays).
+    temperature_C : float or array_like
+        Hold temperature, °C.
+    time_s : float or array_like
+        Hold time, s (0 or more); broadcasts against the temperature.
+    quench_to_C : float
+        Temperature the part is quenched to after the hold, °C (default 20).
+    milestones : bool
+        Also find the times to 1, 50 and 99 % at each temperature (the fractions alone are
+        cheaper for many holds).
+
+    Returns
+    -------
+    HoldResult
+        ``.fractions``: phase name -> share of the part (they sum to 1), of the broadcast
+        shape of temperature and time; ``.milestones_s``: the times to 1, 50 and 99 % of
+        each product and of the whole decomposition at each temperature.
+
+    Examples
+    --------
+    >>> import isokin
+    >>> steel = isokin.steel({"C": 0.79, "Mn": 0.76}, 6.0)
+    >>> after = isokin.hold(steel, 650.0, 3600.0)
+    >>> round(float(after.fractions["pearlite"]), 3)
+    1.0
+    """
+    from ..constants import celsius_to_kelvin
+    from ..errors import InputError
+    from ..results import HoldResult, OVERALL
+
+    T_C = np.asarray(temperature_C, dtype=float)
+    t = np.asarray(time_s, dtype=float)
+    if not np.all(np.isfinite(T_C)) or np.any(T_C <= -273.15):
+        raise InputError(None, "temperature_C", "must be finite temperatures above -273.15 °C")
+    if not np.all(np.isfinite(t)) or np.any(t < 0.0):
+        raise InputError(None, "time_s", "must be finite hold times of 0 s or more")
+    if not (np.isfinite(quench_to_C) and quench_to_C > -273.15):
+        raise InputError(None, "quench_to_C", "must be a finite temperature above -273.15 °C")
+    T_C, t = np.broadcast_arrays(T_C, t)
+    T = celsius_to_kelvin(T_C)
+    held = Decomposition(alloy, T)
+    fractions = dict(held.shares(t))
+    left = np.maximum(1.0 - held.total(t), 0.0)
+    if alloy.martensite is not None:
+        martensite = left * alloy.martensite.fraction(np.minimum(T, celsius_to_kelvin(quench_to_C)))
+        fractions[alloy.martensite.name] = martensite
+        fractions[f"retained {alloy.parent}"] = left - martensite
+    else:
+        fractions[alloy.parent] = left
+    marks = np.asarray(MILESTONES)
+    times_to = {}
+    if milestones:
+        T_marks = T[..., None]
+        times_to = {p.name: p.time_to_fraction(T_marks, marks) for p in alloy.products}
+        if len(alloy.products) > 1:
+            times_to[OVERALL] = Decomposition(alloy, T_marks).time_to_total(marks)
+    return HoldResult(alloy=alloy.name, temperatures_C=T_C, times_s=t, quench_to_C=float(quench_to_C),
+                      fractions=fractions, milestone_fractions=marks, milestones_s=times_to,
+                      transformable=held.transformable, warnings=tuple(alloy.warnings), inputs=alloy.inputs,
+                      provenance=dict(alloy.provenance))

@@ -12,7 +12,7 @@ import numpy as np
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..results import OVERALL, Noses, TTTResult
-from .decomposition import Decomposition, OverallCurve, region_labels
+from .decomposition import OverallCurve, ProductCurve, region_labels
 from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
 
 #: A nose faster than this (s) means an input slip, not a transformation: said in a warning.
@@ -141,7 +141,9 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None) ->
         grid = np.sort(celsius_to_kelvin(np.asarray(temperatures_C, dtype=float).ravel()))
         if grid.size < 3 or not np.all(np.isfinite(grid)) or grid[0] <= 0 or np.any(np.diff(grid) <= 0):
             raise InputError(None, "temperatures_C", "give three or more distinct finite temperatures above -273.15 °C")
-    times, noses = solve_ttt(alloy.products, grid, fr)
+    curves = [ProductCurve(alloy, p) if alloy.sequence or hasattr(p, "equilibrium_fraction") else p
+              for p in alloy.products]
+    times, noses = solve_ttt(curves, grid, fr)
     names = tuple(p.name for p in alloy.products)
     models = {p.name: p.model for p in alloy.products}
     uppers = {p.name: p.upper_K for p in alloy.products}

@@ -169,3 +169,44 @@ def write_figure(fig, target: Path, fmt: str, dpi=150):
         # a crowded figure keeps its default layout; the note would only be noise for the user
         warnings.filterwarnings("ignore", message="constrained_layout not applied")
         fig.savefig(target, dpi=dpi, format=fmt)
+
+
+def _seconds_or_none(value):
+    value = float(value)
+    return float(f"{value:.6g}") if np.isfinite(value) and value <= PRACTICAL_HORIZON_S else None
+
+
+def hold_summary(result) -> dict:
+    """The microstructure after each hold of one temperature, the milestones and the record."""
+    temperatures = np.unique(np.ravel(result.temperatures_C))
+    if temperatures.size != 1:
+        raise ValueError("the hold summary describes holds at one temperature")
+    holds = [{"time_s": float(t), "fractions": {name: round(float(v), 6) for name, v in zip(
+        result.fractions, (np.ravel(f)[k] for f in result.fractions.values()))}}
+        for k, t in enumerate(np.ravel(result.times_s))]
+    milestones = {
+        name: {f"{x:g}": _seconds_or_none(t) for x, t in zip(result.milestone_fractions, np.ravel(times)[:len(
+            result.milestone_fractions)])}
+        for name, times in result.milestones_s.items()
+    }
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy,
+        "hold_temperature_C": float(temperatures[0]),
+        "quench_to_C": result.quench_to_C,
+        "holds": holds,
+        "fraction_meaning": "share of the part after the hold and the quench; the phases sum to 1",
+        "transformable_share": round(float(np.ravel(result.transformable)[0]), 6),
+        "milestones_s": milestones,
+        "milestone_meaning": ("seconds of hold to 1, 50 and 99 % of each product's own completion, and for 'total' "
+                              "of what can transform at this temperature; null: not within the practical horizon"),
+        "practical_horizon_s": PRACTICAL_HORIZON_S,
+        "model_choices": result.provenance,
+        "warnings": list(result.warnings),
+        "inputs": result.inputs,
+        "note": CAUTION_SHORT,
+    }
+
+
+def write_hold_json(result, target: Path):
+    Path(target).write_text(json.dumps(hold_summary(result), indent=2, ensure_ascii=False) + "\n", encoding="utf-8")

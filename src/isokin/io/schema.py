@@ -47,6 +47,26 @@ def parse_number(text: str, integer: bool = False):
     return value if math.isfinite(value) else None
 
 
+#: Units a duration may carry, in seconds.
+DURATION_UNITS_S = {"s": 1.0, "min": 60.0, "h": 3600.0, "d": 86400.0}
+_DURATION = re.compile(r"\s*([0-9.eE+-]+)\s*(s|min|h|d)?\s*", re.ASCII)
+
+
+def parse_duration(text: str):
+    """A hold time in seconds from '90s', '30min', '2h', '1.5 d' or plain seconds; None if not one.
+
+    >>> parse_duration("30min"), parse_duration("2h"), parse_duration("45"), parse_duration("3 weeks")
+    (1800.0, 7200.0, 45.0, None)
+    """
+    match = _DURATION.fullmatch(text)
+    if not match:
+        return None
+    number = parse_number(match.group(1))
+    if number is None or number < 0:
+        return None
+    return number * DURATION_UNITS_S[match.group(2) or "s"]
+
+
 def check_text(source, key, value, limit=NAME_LIMIT):
     """A name or note: non-empty text of at most ``limit`` characters on one line."""
     if not isinstance(value, str) or not value.strip():
