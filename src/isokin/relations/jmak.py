@@ -71,7 +71,7 @@ def time_to_fraction(X, log_K, n, incubation_s=0.0):
     0.693147
     """
     X = np.asarray(X, dtype=float)
-    with np.errstate(over="ignore"):
+    with np.errstate(over="ignore", divide="ignore"):  # X = 0 gives t = tau
         return incubation_s + np.exp((np.log(-np.log1p(-X)) - log_K) / n)
 
 
