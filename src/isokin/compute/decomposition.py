@@ -37,32 +37,35 @@ _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(24)
 _ILLINOIS_STEPS = 40
 
 
-def _caps(alloy, T):
-    """Per product: the share of the parent it reaches alone at completion (0 where it cannot form)."""
-    caps = {}
-    for p in alloy.products:
-        forms = np.isfinite(p.time_factor(T))
-        cap = p.equilibrium_fraction(T) if hasattr(p, "equilibrium_fraction") else 1.0
-        caps[p.name] = np.where(forms, cap, 0.0)
-    return caps
+class _PerProduct(dict):
+    """A dict filled on first access, one product at a time."""
 
+    def __init__(self, names, compute):
+        super().__init__()
+        self._names, self._compute = tuple(names), compute
 
-def _delays(alloy, T, caps):
-    """Per product: the time (s) at which it may begin; 0 unless it waits for another."""
-    delays = {}
-    by_name = {p.name: p for p in alloy.products}
-    for p in alloy.products:
-        waits_for = alloy.sequence.get(p.name)
-        if waits_for is None:
-            delays[p.name] = np.zeros(np.shape(caps[p.name]))
-            continue
-        t_wait = by_name[waits_for].time_to_fraction(T, WAIT_FRACTION)
-        delays[p.name] = np.where(caps[waits_for] > 0.0, t_wait, 0.0)
-    return delays
+    def __missing__(self, name):
+        if name not in self._names:
+            raise KeyError(name)
+        value = self[name] = self._compute(name)
+        return value
+
+    def values(self):
+        return [self[name] for name in self._names]
+
+    def items(self):
+        return [(name, self[name]) for name in self._names]
+
+    def __iter__(self):
+        return iter(self._names)
 
 
 class Decomposition:
     """The decomposition of an alloy's parent at hold temperatures T_K (batch axes leading).
+
+    ``caps[name]``: the share of the parent each product reaches alone at completion (its
+    equilibrium share, 0 where it cannot form); ``delays[name]``: when it may begin (0 unless
+    it waits for another). Both are computed on first use, product by product.
 
     Parameters
     ----------
@@ -75,8 +78,22 @@ class Decomposition:
     def __init__(self, alloy, T_K):
         self.alloy = alloy
         self.T, _ = as_query(T_K)
-        self.caps = _caps(alloy, self.T)
-        self.delays = _delays(alloy, self.T, self.caps)
+        self._by_name = {p.name: p for p in alloy.products}
+        self.caps = _PerProduct(self._by_name, self._cap)
+        self.delays = _PerProduct(self._by_name, self._delay)
+
+    def _cap(self, name):
+        p = self._by_name[name]
+        forms = np.isfinite(p.time_factor(self.T))
+        cap = p.equilibrium_fraction(self.T) if hasattr(p, "equilibrium_fraction") else 1.0
+        return np.where(forms, cap, 0.0)
+
+    def _delay(self, name):
+        waits_for = self.alloy.sequence.get(name)
+        if waits_for is None:
+            return np.zeros(np.shape(self.caps[name]))
+        t_wait = self._by_name[waits_for].time_to_fraction(self.T, WAIT_FRACTION)
+        return np.where(self.caps[waits_for] > 0.0, t_wait, 0.0)
 
     @property
     def transformable(self):
@@ -127,27 +144,43 @@ class Decomposition:
         solvable = (W > 0.0) & np.isfinite(hi) & np.isfinite(lo)
         lo = np.where(solvable, np.maximum(lo, 1e-300), 1.0)
         hi = np.where(solvable, np.maximum(hi, lo), 1.0)
-        root = self._illinois(np.log(lo), np.log(hi), target)
+        root = _illinois(self._total_at(shape), np.log(lo).ravel(), np.log(hi).ravel(), target.ravel(),
+                         np.flatnonzero(solvable)).reshape(shape)
         return np.where(solvable, np.exp(root), np.inf)
 
-    def _illinois(self, a, b, target):
-        """Vectorised Illinois regula falsi for total(e^u) = target on [a, b] (ln s), to 1e-10 in ln t."""
-        def g(u):
-            return self.total(np.exp(u)) - target
+    def _total_at(self, shape):
+        """total(t, idx): the total at times t of the points idx of the flattened shape.
 
-        fa, fb = g(a), g(b)
-        for _ in range(_ILLINOIS_STEPS):
-            with np.errstate(divide="ignore", invalid="ignore"):
-                c = np.where(fb != fa, b - fb * (b - a) / (fb - fa), 0.5 * (a + b))
-            c = np.where(np.isfinite(c) & (np.minimum(a, b) <= c) & (c <= np.maximum(a, b)), c, 0.5 * (a + b))
-            step = np.abs(c - b)
-            fc = g(c)
-            flip = fc * fb < 0.0
-            a, fa = np.where(flip, b, a), np.where(flip, fb, 0.5 * fa)
-            b, fb = c, fc
-            if np.all((step < 1e-10) | (fb == 0.0)):
-                break
-        return b
+        Where every product is separable with a reaction term shared by the batch (Li's
+        S(X); JMAK with one exponent), X = S^-1(t / F(T)) with F computed once, so only the
+        points still being solved are evaluated; otherwise the whole array is.
+        """
+        products = self.alloy.products
+        if all(p.separable and np.ndim(getattr(p, "exponent", 0.0)) == 0 for p in products):
+            parts = []
+            for p in products:
+                factor = np.broadcast_to(p.time_factor(self.T), shape).ravel()
+                cap = np.broadcast_to(self.caps[p.name], shape).ravel()
+                start = np.broadcast_to(self.delays[p.name], shape).ravel()
+                parts.append((p, factor, cap, start, float(p.reaction_term(1.0))))
+
+            def total(t, idx):
+                remaining = 1.0
+                for p, factor, cap, start, s_end in parts:
+                    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+                        s = np.maximum(t - start[idx], 0.0) / factor[idx]
+                    s = np.where(np.isfinite(s), np.minimum(s, s_end), np.where(np.isnan(s), 0.0, s_end))
+                    remaining = remaining * (1.0 - cap[idx] * p.reaction_term_inverse(s))
+                return 1.0 - remaining
+
+            return total
+
+        def total_full(t, idx):
+            t_full = np.zeros(int(np.prod(shape)))
+            t_full[idx] = t
+            return self.total(t_full.reshape(shape)).ravel()[idx]
+
+        return total_full
 
     def shares(self, t_s):
         """Each product's share of the parent after t_s seconds (they sum to :meth:`total`)."""
@@ -195,8 +228,11 @@ class ProductCurve:
         cap, delay = d.caps[self.name], d.delays[self.name]
         X = np.asarray(X, dtype=float)
         reachable = cap > X
-        with np.errstate(divide="ignore", invalid="ignore"):
-            own = np.where(reachable, X / np.where(reachable, cap, 1.0), 0.5)
+        if np.all((cap == 0.0) | (cap == 1.0)):
+            own = X  # the whole parent where it forms: its own fractions, as given (cheap)
+        else:
+            with np.errstate(divide="ignore", invalid="ignore"):
+                own = np.where(reachable, X / np.where(reachable, cap, 1.0), 0.5)
         return np.where(reachable, delay + self.product.time_to_fraction(d.T, own), np.inf)
 
 
@@ -352,3 +388,26 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
                       fractions=fractions, milestone_fractions=marks, milestones_s=times_to,
                       transformable=held.transformable, warnings=tuple(alloy.warnings), inputs=alloy.inputs,
                       provenance=dict(alloy.provenance))
+
+
+def _illinois(total, a, b, target, idx):
+    """Vectorised Illinois regula falsi for total(e^u) = target in u = ln t on [a, b], per
+    point, to 1e-9 in ln t; points drop out as they converge. Returns u for every point."""
+    u = b.copy()
+    a, b, target = a[idx], b[idx], target[idx]
+    fa, fb = total(np.exp(a), idx) - target, total(np.exp(b), idx) - target
+    for _ in range(_ILLINOIS_STEPS):
+        if idx.size == 0:
+            break
+        with np.errstate(divide="ignore", invalid="ignore"):
+            c = np.where(fb != fa, b - fb * (b - a) / (fb - fa), 0.5 * (a + b))
+        c = np.where(np.isfinite(c) & (np.minimum(a, b) <= c) & (c <= np.maximum(a, b)), c, 0.5 * (a + b))
+        step = np.abs(c - b)
+        fc = total(np.exp(c), idx) - target
+        flip = fc * fb < 0.0
+        a, fa = np.where(flip, b, a), np.where(flip, fb, 0.5 * fa)
+        b, fb = c, fc
+        u[idx] = b
+        going = (step >= 1e-9) & (fb != 0.0)
+        idx, a, b, fa, fb, target = idx[going], a[going], b[going], fa[going], fb[going], target[going]
+    return u

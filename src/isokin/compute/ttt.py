@@ -107,7 +107,7 @@ def solve_ttt(products, temperatures_K, fractions=DEFAULT_FRACTIONS):
     return times, noses
 
 
-def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None) -> TTTResult:
+def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, overall=True) -> TTTResult:
     """The isothermal (TTT) diagram of an alloy or a batch of alloys.
 
     Parameters
@@ -120,6 +120,9 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None) ->
         Transformed fractions of each product's own completion, each in (0, 1).
     points : int, optional
         Size of the default grid; default the alloy file's, else 200.
+    overall : bool
+        Also the curves of the decomposition as a whole ("total"), where the alloy has more
+        than one product; they are root-found, so a large batch is faster without them.
 
     Returns
     -------
@@ -148,14 +151,14 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None) ->
     models = {p.name: p.model for p in alloy.products}
     uppers = {p.name: p.upper_K for p in alloy.products}
     regions = ()
-    if len(alloy.products) > 1:
-        overall = OverallCurve(alloy)
-        overall_times, overall_noses = solve_ttt([overall], grid, fr)
+    if overall and len(alloy.products) > 1:
+        whole = OverallCurve(alloy)
+        overall_times, overall_noses = solve_ttt([whole], grid, fr)
         times.update(overall_times)
         noses.update(overall_noses)
         names += (OVERALL,)
-        models[OVERALL] = overall.model
-        uppers[OVERALL] = overall.upper_K
+        models[OVERALL] = whole.model
+        uppers[OVERALL] = whole.upper_K
         if not alloy.batch_shape:
             regions = region_labels(alloy, grid, times[OVERALL], noses[OVERALL], noses)
     warnings = list(alloy.warnings)

@@ -83,13 +83,25 @@ def _dw_ds(y):
 _TABLE_SLOPE = _dw_ds(_TABLE_Y)
 
 
-def _hermite(xq, xs, ys, slopes):
-    """Cubic Hermite interpolation of ys(xs) with the given slopes, at xq (xs ascending)."""
-    k = np.clip(np.searchsorted(xs, xq) - 1, 0, xs.size - 2)
-    h = xs[k + 1] - xs[k]
-    u = (xq - xs[k]) / h
-    return ((1.0 + 2.0 * u) * (1.0 - u) ** 2 * ys[k] + u * (1.0 - u) ** 2 * h * slopes[k]
-            + u * u * (3.0 - 2.0 * u) * ys[k + 1] + u * u * (u - 1.0) * h * slopes[k + 1])
+class _Cubic:
+    """Cubic Hermite interpolation of ys(xs) with given slopes (xs ascending), as per-interval
+    polynomials in the local coordinate, evaluated by Horner's rule."""
+
+    def __init__(self, xs, ys, slopes):
+        h = np.diff(xs)
+        self.xs, self.inverse_h = xs, 1.0 / h
+        self.c0, self.c1 = ys[:-1], h * slopes[:-1]
+        self.c2 = 3.0 * (ys[1:] - ys[:-1]) - h * (2.0 * slopes[:-1] + slopes[1:])
+        self.c3 = 2.0 * (ys[:-1] - ys[1:]) + h * (slopes[:-1] + slopes[1:])
+
+    def __call__(self, xq):
+        k = np.clip(np.searchsorted(self.xs, xq) - 1, 0, self.xs.size - 2)
+        u = (xq - self.xs[k]) * self.inverse_h[k]
+        return self.c0[k] + u * (self.c1[k] + u * (self.c2[k] + u * self.c3[k]))
+
+
+_S_OF_W = _Cubic(_TABLE_W, _TABLE_S, 1.0 / _TABLE_SLOPE)
+_W_OF_S = _Cubic(_TABLE_S, _TABLE_W, _TABLE_SLOPE)
 
 
 def reaction_integral(X):
@@ -136,7 +148,7 @@ def reaction_integral(X):
         raise ValueError("transformed fraction X must lie in [0, 1]")
     upper = X > 0.5
     y = np.where(upper, 1.0 - X, X)
-    piece = _hermite(y**0.6, _TABLE_W, _TABLE_S, 1.0 / _TABLE_SLOPE)
+    piece = _S_OF_W(y**0.6)
     values = np.where(upper, 2.0 * _HALF - piece, piece)
     return values if values.ndim else float(values)
 
@@ -222,6 +234,6 @@ def reaction_integral_inverse(S):
         raise ValueError(f"reaction term S must lie in [0, {2.0 * _HALF:.6f}]")
     upper = S > _HALF
     s = np.where(upper, 2.0 * _HALF - S, S)
-    y = np.clip(_hermite(s, _TABLE_S, _TABLE_W, _TABLE_SLOPE), 0.0, None) ** (1.0 / 0.6)
+    y = np.clip(_W_OF_S(s), 0.0, None) ** (1.0 / 0.6)
     X = np.where(upper, 1.0 - y, y)
     return X if X.ndim else float(X)
