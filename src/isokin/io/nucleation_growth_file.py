@@ -14,6 +14,7 @@ from ..products.nucleation_growth import (
     nucleation_growth_alloy,
 )
 from ..relations.jmak import MODES
+from ..results import OVERALL
 from .schema import Key, read_table
 from .tables import read_driving_force_table
 
@@ -112,6 +113,10 @@ def load(source: Path, head: dict, data: dict):
     if len(tables) > MAX_PRODUCTS:
         raise InputError(source, "product", f"at most {MAX_PRODUCTS} [[product]] tables, got {len(tables)}")
     products = [_product_from_table(source, i + 1, t) for i, t in enumerate(tables)]
+    for i, product in enumerate(products):
+        if product.name == OVERALL:
+            raise InputError(source, f"product[{i + 1}].name", f"'{OVERALL}' names the decomposition as a whole; "
+                             "choose another name")
     try:
         return nucleation_growth_alloy(head["name"], products, inputs={"alloy": data["alloy"], "product": tables})
     except ValueError as exc:
