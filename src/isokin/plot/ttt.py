@@ -8,6 +8,8 @@ product its own marker, so colour is a help, never the only cue.
 
 from __future__ import annotations
 
+import textwrap
+
 import matplotlib.pyplot as plt
 import numpy as np
 from matplotlib.lines import Line2D
@@ -125,6 +127,8 @@ def plot_ttt(result: TTTResult, ax=None, units="C"):
     return ax
 
 
+#: Noses of one product closer than this share of the temperature span share a label.
+SHARED_NOSE_SHARE = 0.02
 #: The decomposition as a whole is drawn in near-black.
 OVERALL_COLOUR = "#111111"
 REGION_STYLE = {"fontsize": 9, "fontstyle": "italic", "color": "#4a4a4a", "va": "center", "zorder": 2}
@@ -156,18 +160,23 @@ def ttt_figure(result: TTTResult, footer_extra="", units="C"):
     """A whole figure for a report: the diagram and a footer with the model and the cautions."""
     fig, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
     plot_ttt(result, ax, units)
-    footer = " · ".join(s for s in (result.footer, footer_extra) if s)
+    footer = "\n".join(textwrap.wrap(" · ".join(s for s in (result.footer, footer_extra) if s), 150))
     if result.warnings:
         footer += (f"\n{len(result.warnings)} warning(s) for this input, such as a composition outside a model's "
                    "calibrated range: see the summary JSON.")
     fig.text(0.01, 0.005, f"{literal(footer)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
-    fig.get_layout_engine().set(rect=(0, 0.065, 1, 0.935))
+    fig.get_layout_engine().set(rect=(0, 0.025 * (footer.count("\n") + 2) + 0.015, 1, 0.935))
     return fig
 
 
 def _nose_labels(result: TTTResult, units):
-    """One label per product nose: (product index, temperature, text, [(fraction, T, t s)]), T in the units."""
+    """One label per product nose: (product index, temperature, text, [(fraction, T, t s)]), T in the units.
+
+    A product's noses share one label where their temperatures lie within
+    :data:`SHARED_NOSE_SHARE` of the diagram's temperature span of each other.
+    """
+    span = float(np.ptp(to_units(result.temperatures_C, units)))
     labels = []
     for i, product in enumerate(result.products):
         n = result.noses[product]
@@ -183,7 +192,7 @@ def _nose_labels(result: TTTResult, units):
         if not noses:
             continue
         temps = [T for _, T, _ in noses]
-        if max(temps) - min(temps) < 1.0:  # the fractions share one nose temperature
+        if max(temps) - min(temps) < SHARED_NOSE_SHARE * span:  # the fractions share about one nose temperature
             # with many fractions the label names the standard three (and the markers show all)
             listed = [n for n in noses if round(n[0], 6) in FRACTION_STYLES] if len(noses) > 4 else noses
             times = "\n".join(f"{x * 100:g} %: {format_duration(t)}" for x, _, t in listed or noses)
