@@ -19,8 +19,12 @@ _EXPORTS = {
     "Alloy": "isokin.products.alloy",
     "ttt": "isokin.compute.ttt",
     "hold": "isokin.compute.decomposition",
+    "cool": "isokin.compute.cooling",
+    "cct": "isokin.compute.cooling",
     "TTTResult": "isokin.results",
     "HoldResult": "isokin.results",
+    "CoolingResult": "isokin.results",
+    "CCTResult": "isokin.results",
     "plot_ttt": "isokin.plot.ttt",
     "InputError": "isokin.errors",
 }

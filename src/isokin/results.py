@@ -243,3 +243,80 @@ class HoldResult:
         columns = {"temperature_C": np.ravel(self.temperatures_C), "time_s": np.ravel(self.times_s)}
         columns.update({name: np.ravel(np.broadcast_to(v, np.shape(self.times_s))) for name, v in self.fractions.items()})
         return pd.DataFrame(columns)
+
+
+@dataclass(frozen=True)
+class CoolingResult:
+    """Phases along cooling paths, as data: arrays of shape (path, step) and per path.
+
+    ``fractions``: phase -> (P, M) share of the part along each path (they sum to 1);
+    ``final``: phase -> (P,) at the end; ``start_time_s``/``start_temperature_K``: product
+    -> (P,) where it first makes up 1 % of the part (NaN: never); ``hardness_HV`` and
+    ``rate_at_700_C_per_h``: (P,) for steels, None otherwise.
+    """
+
+    alloy: str
+    labels: tuple
+    time_s: np.ndarray
+    temperature_K: np.ndarray
+    fractions: dict
+    final: dict
+    start_time_s: dict
+    start_temperature_K: dict
+    hardness_HV: object
+    rate_at_700_C_per_h: object
+    critical_K: dict
+    warnings: tuple = ()
+    inputs: dict = field(default_factory=dict)
+    provenance: dict = field(default_factory=dict)
+
+    def columns(self) -> dict:
+        """The phases along the paths as columns: path, time_s, temperature_C, one per phase."""
+        _, M = self.time_s.shape
+        columns = {"path": np.repeat(np.array(self.labels, dtype=object), M), "time_s": self.time_s.ravel(),
+                   "temperature_C": kelvin_to_celsius(self.temperature_K).ravel()}
+        columns.update({name: v.ravel() for name, v in self.fractions.items()})
+        return columns
+
+    def to_frame(self):
+        """Tidy pandas table along the paths: path, time_s, temperature_C, and a column per phase."""
+        import pandas as pd
+
+        return pd.DataFrame(self.columns())
+
+
+@dataclass(frozen=True)
+class CCTResult:
+    """A continuous-cooling diagram as data: per rate, where each curve starts and finishes.
+
+    ``curves``: product (and "total") -> {"start": (times s, temperatures K),
+    "finish": (...)}, each of shape (rates,), NaN where the curve does not reach that rate;
+    ``cooling``: the CoolingResult of the rates' paths; ``critical_rates``: see
+    :func:`isokin.compute.cooling.critical_rates`.
+    """
+
+    alloy: str
+    rates_K_s: np.ndarray
+    start_C: float
+    cooling: CoolingResult
+    curves: dict
+    critical_rates: dict
+    critical_K: dict
+
+    def to_frame(self):
+        """Tidy pandas table: rate_K_s, curve (product or total), edge (start, finish), time_s, temperature_C."""
+        import pandas as pd
+
+        return pd.DataFrame(self.curve_columns())
+
+    def curve_columns(self) -> dict:
+        rows = {"rate_K_s": [], "curve": [], "edge": [], "time_s": [], "temperature_C": []}
+        for name, edges in self.curves.items():
+            for edge, (times, temps) in edges.items():
+                ok = np.isfinite(times)
+                rows["rate_K_s"] += self.rates_K_s[ok].tolist()
+                rows["curve"] += [name] * int(ok.sum())
+                rows["edge"] += [edge] * int(ok.sum())
+                rows["time_s"] += times[ok].tolist()
+                rows["temperature_C"] += kelvin_to_celsius(temps[ok]).tolist()
+        return {k: np.array(v, dtype=object if k in ("curve", "edge") else float) for k, v in rows.items()}

@@ -425,6 +425,201 @@ def hold(
     typer.echo(CAUTION)
 
 
+def _rates(text: Optional[str]):
+    """--rates "0.1,1,10" as K/s, or None for the default family."""
+    if text is None:
+        return None
+    from ..io.schema import parse_number
+
+    values = [parse_number(v) for v in text.replace(";", ",").split(",") if v.strip()]
+    if not values or any(v is None or v <= 0 for v in values):
+        raise InputError(None, "--rates", f"{text!r} is not a list of positive cooling rates in K/s, e.g. 0.1,1,10,100")
+    return values
+
+
+def _final_table(labels, result, units):
+    """Final phases, hardness and where each product starts, one row per path."""
+    from ..relations.hardness import hrc_from_hv_astm_e140
+
+    names = list(result.final)
+    head = f"  {'cooling':>18}  " + "  ".join(f"{n:>{max(len(n), 7)}}" for n in names)
+    typer.echo(head + ("     HV    HRC" if result.hardness_HV is not None else ""))
+    for k, label in enumerate(labels):
+        row = f"  {label:>18}  " + "  ".join(f"{float(result.final[n][k]) * 100:>{max(len(n), 7) - 2}.1f} %"
+                                               for n in names)
+        if result.hardness_HV is not None:
+            hv = float(result.hardness_HV[k])
+            hrc = float(hrc_from_hv_astm_e140(hv))
+            row += f"  {hv:>5.0f}  " + (f"{hrc:>5.1f}" if math.isfinite(hrc) else "    -")
+        typer.echo(row)
+
+
+@app.command()
+def cct(
+    alloy_file: AlloyArg = None,
+    rates: Annotated[Optional[str], typer.Option("--rates", metavar="K_PER_S,...",
+                     help="Constant cooling rates, K/s, comma-separated (default 21 from 0.01 to 1000).")] = None,
+    start_c: Annotated[Optional[float], typer.Option("--start-c", parser=_decimal, metavar="NUMBER",
+                       help="Start of cooling, °C (default the highest temperature where a product forms).")] = None,
+    composition: CompositionOpt = None,
+    grain_size: GrainOpt = None,
+    austenitizing_c: AustenitizingOpt = None,
+    ms_method: MsMethodOpt = None,
+    name: NameOpt = None,
+    out: OutOpt = Path("isokin-out"),
+    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    overwrite: OverwriteOpt = False,
+    units: UnitsOpt = Units.C,
+):
+    """Draw the continuous-cooling (CCT) diagram for a family of constant rates and export it.
+
+    Prints the phases and hardness at the end of each cooling and the critical cooling
+    rates; writes <stem>-cct.png, <stem>-cct-curves.csv and <stem>-cct-summary.json.
+    """
+    from ..compute.cooling import cct as cct_of
+
+    try:
+        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        result = cct_of(alloy, _rates(rates), start_C=start_c)
+        paths = _output_paths(out, {"figure": f"{stem}-cct.{fmt.value}", "curves": f"{stem}-cct-curves.csv",
+                                    "summary": f"{stem}-cct-summary.json"}, overwrite)
+    except InputError as exc:
+        fail(exc)
+    _warn(result.cooling)
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from ..io.export import cct_summary, write_columns_csv, write_figure, write_json
+    from ..plot.cct import plot_cct, report_figure
+
+    figure = report_figure(plot_cct, result, alloy.footer, units=units.value)
+    try:
+        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
+                paths["curves"]: lambda p: write_columns_csv(result.curve_columns(), p),
+                paths["summary"]: lambda p: write_json(cct_summary(result), p)}, out, overwrite)
+    finally:
+        plt.close(figure)
+    typer.echo(f"{alloy.name}: continuous cooling from {_in_units(result.start_C, units)}")
+    _final_table([f"{r:.3g} K/s" for r in result.rates_K_s], result.cooling, units)
+    for key, record in result.critical_rates.items():
+        value = record.get("rate_K_s")
+        said = f"{value:.3g} K/s ({record['tolerance']})" if value is not None else record.get("note", "")
+        typer.echo(f"  critical rate, {record['definition']}: {said}")
+    for p in paths.values():
+        typer.echo(f"wrote {p}")
+    typer.echo(CAUTION)
+
+
+@app.command()
+def cool(
+    alloy_file: AlloyArg = None,
+    rate: Annotated[Optional[list[float]], typer.Option("--rate", parser=_decimal, metavar="K_PER_S",
+                    help="Constant cooling rate, K/s; repeatable.")] = None,
+    log: Annotated[Optional[Path], typer.Option("--log", help="Measured log: CSV with time_s,temperature_C.")] = None,
+    medium_c: Annotated[Optional[float], typer.Option("--medium-c", parser=_decimal, metavar="NUMBER",
+                        help="Newtonian cooling toward this medium temperature, °C.")] = None,
+    time_constant_s: Annotated[Optional[float], typer.Option("--time-constant-s", parser=_decimal, metavar="NUMBER",
+                               help="Newtonian time constant, s (or give --thickness-mm and --htc).")] = None,
+    thickness_mm: Annotated[Optional[float], typer.Option("--thickness-mm", parser=_decimal, metavar="NUMBER",
+                            help="Section thickness (plate) or diameter (bar, sphere), mm, for a lumped body.")] = None,
+    htc: Annotated[Optional[float], typer.Option("--htc", parser=_decimal, metavar="W_PER_M2K",
+                   help="Heat-transfer coefficient of the quench, W/(m2 K), with --thickness-mm.")] = None,
+    shape: Annotated[str, typer.Option("--shape", help="plate, bar or sphere, with --thickness-mm.")] = "plate",
+    start_c: Annotated[Optional[float], typer.Option("--start-c", parser=_decimal, metavar="NUMBER",
+                       help="Start of cooling, °C (default the austenitizing temperature, else the highest "
+                            "temperature where a product forms).")] = None,
+    composition: CompositionOpt = None,
+    grain_size: GrainOpt = None,
+    austenitizing_c: AustenitizingOpt = None,
+    ms_method: MsMethodOpt = None,
+    name: NameOpt = None,
+    out: OutOpt = Path("isokin-out"),
+    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    overwrite: OverwriteOpt = False,
+    units: UnitsOpt = Units.C,
+):
+    """What a cooling path produces: final phases, where each product starts, and hardness.
+
+    Give constant rates (--rate), a measured log (--log), or Newtonian cooling (--medium-c with
+    --time-constant-s, or with --thickness-mm and --htc). Writes <stem>-cool.png (the path over
+    the isothermal and continuous-cooling curves), <stem>-cool.csv (the phases along the path)
+    and <stem>-cool-summary.json.
+    """
+    from ..compute import cooling as C
+
+    try:
+        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        top_C = float(kelvin_to_celsius(max(float(p.upper_K) for p in alloy.products)))
+        given = alloy.inputs.get("steel", {}).get("austenitizing_temperature_C")
+        start = start_c if start_c is not None else (given if given is not None else top_C)
+        kinds = sum(x is not None and x != [] for x in (rate, log, medium_c))
+        if kinds != 1:
+            raise InputError(None, "--rate", "give one kind of path: --rate, --log, or --medium-c with "
+                             "--time-constant-s or --thickness-mm and --htc")
+        if rate:
+            path = [C.constant_rate(r, start) for r in rate]
+        elif log is not None:
+            from ..io.tables import read_cooling_log
+
+            path = [read_cooling_log(None, "--log", log)]
+            start = float(kelvin_to_celsius(path[0].temperature_K[0]))
+            if float(path[0].temperature_K.min()) >= max(float(p.upper_K) for p in alloy.products):
+                raise InputError(None, "--log", f"{log} never cools below {top_C:.0f} °C, where the first product "
+                                 "could form: nothing to predict")
+        elif time_constant_s is not None:
+            path = [C.newtonian(start, medium_c, time_constant_s)]
+        elif thickness_mm is not None and htc is not None:
+            if shape not in ("plate", "bar", "sphere"):
+                raise InputError(None, "--shape", f"must be plate, bar or sphere, got {shape!r}")
+            if not (thickness_mm > 0 and htc > 0):
+                raise InputError(None, "--thickness-mm", "the thickness and --htc must be positive")
+            path = [C.newtonian_section(start, medium_c, thickness_mm / 1000.0, htc, shape)]
+        else:
+            raise InputError(None, "--medium-c", "needs --time-constant-s, or --thickness-mm and --htc")
+        result = C.cool(alloy, path)
+        isothermal = ttt_of(alloy)
+        continuous = C.cct(alloy, start_C=start) if alloy.model == "steel" else None
+        paths = _output_paths(out, {"figure": f"{stem}-cool.{fmt.value}", "along": f"{stem}-cool.csv",
+                                    "summary": f"{stem}-cool-summary.json"}, overwrite)
+    except InputError as exc:
+        fail(exc)
+    _warn(result)
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from ..io.export import cooling_summary, write_cooling_csv, write_figure, write_json
+    from ..plot.cct import plot_cooling, report_figure
+
+    figure = report_figure(plot_cooling, result, alloy.footer, ttt=isothermal, cct=continuous, units=units.value)
+    try:
+        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
+                paths["along"]: lambda p: write_cooling_csv(result, p),
+                paths["summary"]: lambda p: write_json(cooling_summary(result), p)}, out, overwrite)
+    finally:
+        plt.close(figure)
+    typer.echo(f"{alloy.name}: cooling from {_in_units(start, units)}")
+    _final_table(list(result.labels), result, units)
+    for k, label in enumerate(result.labels):
+        for product in result.start_temperature_K:
+            T = float(result.start_temperature_K[product][k])
+            if math.isfinite(T):
+                typer.echo(f"  {label}: {product} starts at {_in_units(kelvin_to_celsius(T), units)} after "
+                           f"{format_duration(float(result.start_time_s[product][k]))}")
+    for p in paths.values():
+        typer.echo(f"wrote {p}")
+    typer.echo(CAUTION)
+
+
+def ttt_of(alloy):
+    from ..compute.ttt import ttt
+
+    return ttt(alloy)
+
+
 @app.command()
 def version():
     """Print the isokin version."""

@@ -107,7 +107,11 @@ def _column_text(values: np.ndarray) -> list:
 
 def write_curves_csv(result: TTTResult, target: Path):
     """The tidy curve table (``member`` first for a batch)."""
-    columns = result.curve_columns()
+    write_columns_csv(result.curve_columns(), target)
+
+
+def write_columns_csv(columns: dict, target: Path):
+    """A table of equal-length columns as CSV."""
     cells = [_column_text(np.asarray(v)) for v in columns.values()]
     with open(target, "w", newline="", encoding="utf-8") as handle:
         handle.write(",".join(columns) + "\n")
@@ -159,8 +163,12 @@ def summary(result: TTTResult) -> dict:
     }
 
 
+def write_json(data: dict, target: Path):
+    Path(target).write_text(json.dumps(data, indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+
+
 def write_summary_json(result: TTTResult, target: Path):
-    Path(target).write_text(json.dumps(summary(result), indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+    write_json(summary(result), target)
 
 
 def write_figure(fig, target: Path, fmt: str, dpi=150):
@@ -209,4 +217,65 @@ def hold_summary(result) -> dict:
 
 
 def write_hold_json(result, target: Path):
-    Path(target).write_text(json.dumps(hold_summary(result), indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+    write_json(hold_summary(result), target)
+
+
+def _finite_or_none(value, digits=6):
+    value = float(value)
+    return float(f"{value:.{digits}g}") if np.isfinite(value) else None
+
+
+def _cooling_entries(result, index):
+    from ..relations.hardness import hrc_from_hv_astm_e140
+
+    entry = {"final_fractions": {name: round(float(v[index]), 6) for name, v in result.final.items()},
+             "starts": {name: {"time_s": _finite_or_none(result.start_time_s[name][index]),
+                               "temperature_C": _finite_or_none(kelvin_to_celsius(result.start_temperature_K[name][index]))}
+                        for name in result.start_time_s}}
+    if result.hardness_HV is not None:
+        hv = float(result.hardness_HV[index])
+        entry["hardness_HV"] = _finite_or_none(hv, 4)
+        entry["hardness_HRC"] = _finite_or_none(hrc_from_hv_astm_e140(hv), 3)
+        entry["cooling_rate_at_700_C_per_h"] = _finite_or_none(result.rate_at_700_C_per_h[index], 4)
+    return entry
+
+
+_HARDNESS_NOTE = ("Maynier, Jungmann & Dollet (1978), coefficients from memory; volume-fraction mixture of martensite, "
+                  "bainite and ferrite + pearlite, retained austenite not counted; HRC by ASTM E140 rows typed from "
+                  "memory (null outside HRC 20-68)")
+
+
+def cooling_summary(result) -> dict:
+    """The phases at the end of each path, where each product starts, the hardness and the record."""
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy,
+        "paths": [{"path": label, **_cooling_entries(result, k)} for k, label in enumerate(result.labels)],
+        "fraction_meaning": "share of the part at the end of the path; the phases sum to 1",
+        "start_meaning": "where a product first makes up 1 % of the part along the path",
+        "hardness_method": _HARDNESS_NOTE,
+        "critical_temperatures_C": {k: round(float(kelvin_to_celsius(v)), 3) for k, v in result.critical_K.items()
+                                    if np.isfinite(v)},
+        "model_choices": result.provenance,
+        "warnings": list(result.warnings),
+        "inputs": result.inputs,
+        "note": CAUTION_SHORT,
+    }
+
+
+def cct_summary(result) -> dict:
+    """Per rate: the final phases and hardness; the critical cooling rates; the record."""
+    base = cooling_summary(result.cooling)
+    base["rates"] = [{"rate_K_s": float(r), **_cooling_entries(result.cooling, k)}
+                     for k, r in enumerate(result.rates_K_s)]
+    del base["paths"]
+    base["start_temperature_C"] = result.start_C
+    base["critical_cooling_rates"] = result.critical_rates
+    base["curve_meaning"] = ("start: a product (or all together, 'total') first makes up 1 % of the part; finish: it "
+                             "reaches 99 % of its share at the end of that cooling; times since the start temperature")
+    return base
+
+
+def write_cooling_csv(result, target: Path):
+    """Phases along each path: path, time_s, temperature_C and one column per phase."""
+    write_columns_csv(result.columns(), target)

@@ -54,3 +54,44 @@ def read_driving_force_table(source, where, path: Path) -> DrivingForceTable:
         return DrivingForceTable(celsius_to_kelvin(table[:, 0]), table[:, 1])
     except ValueError as exc:
         raise InputError(source, where, f"table file {path}: {exc}") from None
+
+
+LOG_COLUMNS = ("time_s", "temperature_C")
+#: A thermocouple log longer than this is refused: far more than any quench or furnace cycle.
+MAX_LOG_ROWS = 200_000
+
+
+def read_cooling_log(source, key, path: Path):
+    """A logged cooling path from a CSV with columns time_s, temperature_C (others ignored).
+
+    Rows may come in any order and repeat a time (they are averaged); blank lines and lines
+    starting with # are skipped; a cell that is not a plain number is an error naming its
+    line. Gaps are bridged linearly by the path itself.
+    """
+    from ..compute.cooling import measured
+
+    text = read_input_file(source, key, path, "cooling log")
+    rows = [r for r in csv.reader(io.StringIO(text, newline="")) if r and not r[0].lstrip().startswith("#")]
+    header = [h.strip() for h in rows[0]] if rows else []
+    missing = [c for c in LOG_COLUMNS if c not in header]
+    if missing:
+        raise InputError(source, key, f"cooling log {path} needs a header with {', '.join(LOG_COLUMNS)}; missing "
+                         f"{', '.join(missing)}")
+    columns = [header.index(c) for c in LOG_COLUMNS]
+    values = []
+    for line, row in enumerate(rows[1:], start=2):
+        if not any(cell.strip() for cell in row):
+            continue
+        numbers = [parse_number(row[j]) if j < len(row) else None for j in columns]
+        if None in numbers:
+            raise InputError(source, key, f"cooling log {path}, row {line}: time_s and temperature_C must be plain "
+                             "finite decimal numbers")
+        if not numbers[1] > -273.15:
+            raise InputError(source, key, f"cooling log {path}, row {line}: temperature_C must lie above -273.15")
+        values.append(numbers)
+    if len(values) > MAX_LOG_ROWS:
+        raise InputError(source, key, f"cooling log {path} has {len(values)} rows; the limit is {MAX_LOG_ROWS}")
+    table = np.array(values) if values else np.zeros((0, 2))
+    if np.unique(table[:, 0]).size < 2:
+        raise InputError(source, key, f"cooling log {path} needs at least two rows with distinct times")
+    return measured(table[:, 0], table[:, 1], label=Path(path).name)

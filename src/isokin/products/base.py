@@ -113,7 +113,12 @@ class Product(Protocol):
         ...
 
     def time_factor(self, T_K) -> np.ndarray:
-        """F(T) in s of t = F(T) S(X); ``inf`` where the product cannot form."""
+        """F(T) in s of t = F(T) S(X) (after any incubation); ``inf`` where the product cannot form."""
+        ...
+
+    def incubation_s(self, T_K) -> np.ndarray:
+        """Incubation time at T_K, s, before growth starts (0 where there is none); along a
+        path its Scheil sum decides when growth begins."""
         ...
 
     def reaction_term(self, X) -> np.ndarray:

@@ -260,6 +260,11 @@ class Li1998Product:
         with np.errstate(over="ignore"):
             return np.where(forms, np.exp(log_factor), np.inf)
 
+    def incubation_s(self, T_K):
+        """None in Li's model: its S(X) starts at X = 0 (0 everywhere)."""
+        T, q = as_query(T_K)
+        return np.zeros(np.broadcast_shapes(T.shape, self._batch_shape + (1,) * max(q - len(self._batch_shape), 0)))
+
     def reaction_term(self, X):
         """S(X) of :func:`~isokin.relations.li_reaction.reaction_integral`."""
         return reaction_integral(X)

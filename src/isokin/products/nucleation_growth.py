@@ -247,6 +247,11 @@ class NucleationGrowthProduct:
         with np.errstate(over="ignore"):
             return np.exp(-self._log_rate_constant(T, f) / self._exponent(f))
 
+    def incubation_s(self, T_K):
+        """The given incubation time (the same at every temperature where the product forms)."""
+        (T,), f = self._query(T_K)
+        return np.broadcast_to(f.incubation_time_s, np.broadcast_shapes(T.shape, np.shape(f.incubation_time_s))) + 0.0
+
     def reaction_term(self, X):
         (X,), f = self._query(X)
         return jmak.reaction_term(X, self._exponent(f))

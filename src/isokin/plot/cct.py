@@ -1,0 +1,131 @@
+"""Continuous cooling as figures: the CCT diagram, and cooling paths over the isothermal diagram.
+
+Reads computed results; computes no physics; never switches the matplotlib backend.
+"""
+
+from __future__ import annotations
+
+import textwrap
+
+import matplotlib.pyplot as plt
+import numpy as np
+from matplotlib.lines import Line2D
+
+from ..constants import kelvin_to_celsius
+from ..readout import CAUTION_SHORT
+from ..results import OVERALL, CCTResult, CoolingResult
+from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, plot_ttt, to_units
+
+PATH_COLOUR = "#6a3d9a"
+COOLING_STYLE = {"color": "#b5b5b5", "linewidth": 0.7, "zorder": 1}
+
+
+def _times(t):
+    """Times for a log axis: the first point of a path (t = 0) is left out."""
+    return np.where(t > 0, t, np.nan)
+
+
+def plot_cct(result: CCTResult, ax=None, units="C"):
+    """Draw the CCT diagram: cooling curves faintly, each product's start and finish, the start
+    and finish of all products together in bold, the critical lines, and the hardness at the
+    end of each cooling curve.
+
+    Returns
+    -------
+    matplotlib Axes
+    """
+    if units not in ("C", "F"):
+        raise ValueError("units must be 'C' or 'F'")
+    if ax is None:
+        _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
+    cooling = result.cooling
+    T_plot = to_units(kelvin_to_celsius(cooling.temperature_K), units)
+    for k in range(T_plot.shape[0]):
+        ax.plot(_times(cooling.time_s[k]), T_plot[k], **COOLING_STYLE)
+    handles = []
+    for i, (name, edges) in enumerate(result.curves.items()):
+        bold = name == OVERALL
+        colour = OVERALL_COLOUR if bold else PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
+        drawn = False
+        for edge, style in (("start", "-"), ("finish", (0, (5, 2.5)))):
+            times, temps = edges[edge]
+            if np.isfinite(times).sum() < 1:
+                continue
+            ax.plot(times, to_units(kelvin_to_celsius(temps), units), color=colour, linestyle=style,
+                    linewidth=2.6 if bold else 1.5, marker="o" if not bold else None, markersize=2.5, zorder=3)
+            drawn = True
+        if drawn:
+            handles.append(Line2D([], [], color=colour, linewidth=2.6 if bold else 1.8,
+                                  label="all products together" if bold else literal(name)))
+    handles += [Line2D([], [], color="#333333", linestyle="-", label="start (1 % of the part)"),
+                Line2D([], [], color="#333333", linestyle=(0, (5, 2.5)), label="finish (99 % of its final share)"),
+                Line2D([], [], label="constant cooling rates", **COOLING_STYLE)]
+    ax.set_xscale("log")
+    finite = cooling.time_s[cooling.time_s > 0]
+    ax.set_xlim(max(finite.min(), 1e-2), finite.max() * 1.5)
+    lines = {name: float(to_units(kelvin_to_celsius(t), units)) for name, t in result.critical_K.items()}
+    for name, y in lines.items():
+        ax.axhline(y, **LINE_STYLE, zorder=1)
+        ax.text(0.995, y, f"{literal(name)} {y:.0f} °{units}", transform=ax.get_yaxis_transform(), va="bottom",
+                ha="right", fontsize=7.5, color="#333333")
+    low = float(np.nanmin(T_plot))
+    top = max(float(np.nanmax(T_plot)), *lines.values()) if lines else float(np.nanmax(T_plot))
+    ax.set_ylim(low - 0.10 * (top - low), top + 0.05 * (top - low))
+    if cooling.hardness_HV is not None:
+        for k, hv in enumerate(cooling.hardness_HV):
+            if k % 2 == 0 and np.isfinite(hv):
+                ax.text(cooling.time_s[k, -1], low - 0.02 * (top - low), f"{hv:.0f}", rotation=90, ha="center",
+                        va="top", fontsize=6.5, color="#333333")
+        ax.text(0.005, 0.012, "HV at the end of every other cooling curve", transform=ax.transAxes, fontsize=6.5,
+                color="#333333")
+    ax.set_xlabel(f"time since {result.start_C:.0f} °C, s (log scale)" if units == "C"
+                  else f"time since {result.start_C * 1.8 + 32:.0f} °F, s (log scale)")
+    ax.set_ylabel(f"temperature, °{units}")
+    ax.set_title(f"Continuous cooling: {literal(result.alloy)}", fontsize=11, loc="left")
+    ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
+    ax.legend(handles=handles, loc="lower left", bbox_to_anchor=(0.0, 0.05), fontsize=7.5, framealpha=0.92)
+    return ax
+
+
+def plot_cooling(result: CoolingResult, ttt=None, cct=None, ax=None, units="C"):
+    """Cooling paths over the isothermal diagram (and the CCT start curves), with where each
+    product starts along each path.
+
+    Returns
+    -------
+    matplotlib Axes
+    """
+    if ax is None:
+        _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
+    if ttt is not None:
+        plot_ttt(ttt, ax, units)
+    if cct is not None:
+        for i, (name, edges) in enumerate(cct.curves.items()):
+            times, temps = edges["start"]
+            colour = OVERALL_COLOUR if name == OVERALL else PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
+            ax.plot(times, to_units(kelvin_to_celsius(temps), units), color=colour, linewidth=1.0,
+                    linestyle=(0, (1, 1.5)), zorder=3)
+    T_plot = to_units(kelvin_to_celsius(result.temperature_K), units)
+    for k, label in enumerate(result.labels):
+        ax.plot(_times(result.time_s[k]), T_plot[k], color=PATH_COLOUR, linewidth=2.2, zorder=6)
+        for name in result.start_time_s:
+            t, T = result.start_time_s[name][k], result.start_temperature_K[name][k]
+            if np.isfinite(t) and t > 0:
+                y = float(to_units(kelvin_to_celsius(T), units))
+                ax.plot(t, y, marker="o", color=PATH_COLOUR, markerfacecolor="white", zorder=7)
+                ax.annotate(f"{literal(name)} starts", (t, y), xytext=(6, 4), textcoords="offset points",
+                            fontsize=7, color=PATH_COLOUR)
+    ax.set_title(f"Cooling path: {literal(result.alloy)}", fontsize=11, loc="left")
+    ax.set_xlabel("time, s (log scale); the isothermal curves as hold times")
+    return ax
+
+
+def report_figure(draw, result, footer, **kwargs):
+    """A whole figure: ``draw(result, ax, ...)`` and a footer with the cautions."""
+    fig, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
+    draw(result, ax=ax, **kwargs)
+    text = "\n".join(textwrap.wrap(footer, 150)) if footer else ""
+    fig.text(0.01, 0.005, f"{literal(text)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
+             ha="left", va="bottom")
+    fig.get_layout_engine().set(rect=(0, 0.025 * (text.count("\n") + 2) + 0.015, 1, 0.935))
+    return fig
