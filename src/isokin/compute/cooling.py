@@ -185,8 +185,9 @@ def along(alloy, paths):
         waits_for = alloy.sequence.get(p.name)
         if waits_for is not None:
             w = by_name[waits_for]
-            ready = (sums[waits_for] >= float(w.reaction_term(WAIT_FRACTION))) | (_equilibrium(w, T) <= 0.0)
-            started = started & _running(ready, np.logical_or)
+            # once the other has reached its wait fraction, for good; and wherever it cannot form at all
+            done = _running(sums[waits_for] >= float(w.reaction_term(WAIT_FRACTION)), np.logical_or)
+            started = started & (done | ~(np.isfinite(w.time_factor(T)) & (_equilibrium(w, T) > 0.0)))
         increments = _trapezoid_increments(speed, dt) * started[..., 1:]
         sums[p.name] = np.concatenate([np.zeros(T.shape[:-1] + (1,)), np.cumsum(increments, axis=-1)], axis=-1)
         s_end = float(p.reaction_term(1.0))
