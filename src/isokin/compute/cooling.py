@@ -370,7 +370,8 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
     curves = {}
     names = [p.name for p in alloy.products]
     transformed = sum(f[n] for n in names)
-    for name, values in [*((n, f[n]) for n in names), (OVERALL, transformed)]:
+    series = [(n, f[n]) for n in names] + ([(OVERALL, transformed)] if len(names) > 1 else [])
+    for name, values in series:
         final = values[:, -1]
         start_t, start_T = first_reached(t, T, values, START_SHARE)
         finish_t, finish_T = first_reached(t, T, values, np.where(final >= START_SHARE, FINISH_SHARE * final, 0.0))
@@ -392,17 +393,25 @@ def critical_rates(alloy, start_C, end_C=20.0):
 
     Returns a dict: name -> {"rate_K_s": value or None, "tolerance": ratio, "definition": text}.
     """
-    definitions = {
-        "ferrite_pearlite_under_1_percent": ("slowest constant rate from the start temperature with ferrite + "
-                                             "pearlite under 1 % of the part", lambda fr: fr.get("ferrite", 0.0)
-                                             + fr.get("pearlite", 0.0) < 0.01),
-        "martensite_95_percent_at_20_C": ("slowest constant rate to 20 °C that leaves at least 95 % martensite",
-                                          lambda fr: fr.get("martensite", 0.0) >= 0.95),
-    }
+    products = [p.name for p in alloy.products]
+    if alloy.martensite is not None:
+        soft = [n for n in ("ferrite", "pearlite") if n in products]
+        definitions = {
+            "ferrite_pearlite_under_1_percent": (
+                "slowest constant rate from the start temperature with ferrite + pearlite under 1 % of the part",
+                lambda fr: sum(np.asarray(fr[n]) for n in soft) < 0.01),
+            "martensite_95_percent_at_20_C": ("slowest constant rate to 20 °C that leaves at least 95 % martensite",
+                                              lambda fr: np.asarray(fr[alloy.martensite.name]) >= 0.95),
+        }
+    else:
+        definitions = {
+            "all_products_under_1_percent": (
+                f"slowest constant rate from the start temperature that keeps {' + '.join(products)} under 1 % of "
+                "the part (the quench-sensitive range passed in time)",
+                lambda fr: sum(np.asarray(fr[n]) for n in products) < 0.01),
+        }
     out = {}
     for key, (definition, ok) in definitions.items():
-        if key.startswith("martensite") and alloy.martensite is None:
-            continue
         end = 20.0 if key.startswith("martensite") else end_C
 
         def good(rates):
