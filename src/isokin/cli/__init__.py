@@ -563,7 +563,7 @@ def cool(
         elif log is not None:
             from ..io.tables import read_cooling_log
 
-            path = [read_cooling_log(None, "--log", log)]
+            path = [read_cooling_log(log, key="--log")]
             start = float(kelvin_to_celsius(path[0].temperature_K[0]))
             if float(path[0].temperature_K.min()) >= max(float(p.upper_K) for p in alloy.products):
                 raise InputError(None, "--log", f"{log} never cools below {top_C:.0f} °C, where the first product "

@@ -61,12 +61,13 @@ LOG_COLUMNS = ("time_s", "temperature_C")
 MAX_LOG_ROWS = 200_000
 
 
-def read_cooling_log(source, key, path: Path):
+def read_cooling_log(path: Path, source=None, key="log"):
     """A logged cooling path from a CSV with columns time_s, temperature_C (others ignored).
 
     Rows may come in any order and repeat a time (they are averaged); blank lines and lines
     starting with # are skipped; a cell that is not a plain number is an error naming its
-    line. Gaps are bridged linearly by the path itself.
+    line. Gaps are bridged linearly by the path itself. ``source`` and ``key`` name where the
+    log was given, for the error message.
     """
     from ..compute.cooling import measured
 
