@@ -216,3 +216,14 @@ def test_units_convert_the_figure_axis():
     top = max(line.get_ydata().max() for line in ax.lines if len(line.get_ydata()) > 2)
     assert top == pytest.approx(float(result.temperatures_C[-1]) * 1.8 + 32.0, rel=1e-9)
     plt.close(ax.figure)
+
+
+def test_own_curves_are_the_published_models_curves():
+    # decomposition=False: each product from all of the austenite, no sequence, no total.
+    steel = isokin.load_alloy(ROOT / "alloys" / "aisi-4140-crmo.toml")
+    result = isokin.ttt(steel, points=50, decomposition=False)
+    assert result.overall is None
+    T = result.temperatures_K
+    for product in steel.products:
+        own = product.time_to_fraction(T[None, :], result.fractions[:, None])
+        np.testing.assert_allclose(result.times_s[product.name], np.where(own > 0, own, np.inf), rtol=1e-14)

@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..products.base import as_query
+from ..products.base import as_query, batch_leading
 
 #: A product that waits for another begins when that one has reached this share of its own
 #: completion (the full completion takes infinitely long in JMAK).
@@ -84,7 +84,10 @@ class Decomposition:
 
     def _cap(self, name):
         p = self._by_name[name]
-        forms = np.isfinite(p.time_factor(self.T))
+        # the product's window from its interface bounds, with the batch leading the query
+        b, q = len(p.batch_shape), self.T.ndim
+        forms = ((self.T >= batch_leading(np.asarray(p.lower_K), b, q))
+                 & (self.T < batch_leading(np.asarray(p.upper_K), b, q)))
         cap = p.equilibrium_fraction(self.T) if hasattr(p, "equilibrium_fraction") else 1.0
         return np.where(forms, cap, 0.0)
 

@@ -107,7 +107,8 @@ def solve_ttt(products, temperatures_K, fractions=DEFAULT_FRACTIONS):
     return times, noses
 
 
-def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, overall=True) -> TTTResult:
+def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, overall=True,
+        decomposition=True) -> TTTResult:
     """The isothermal (TTT) diagram of an alloy or a batch of alloys.
 
     Parameters
@@ -123,6 +124,11 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
     overall : bool
         Also the curves of the decomposition as a whole ("total"), where the alloy has more
         than one product; they are root-found, so a large batch is faster without them.
+    decomposition : bool
+        Products' curves within the decomposition (after their turn in the sequence, as
+        shares of the parent; the default). False gives each product's own curve from all of
+        the parent, as the published model states it (no sequence, no equilibrium share and
+        no "total"), for comparison with the model's source.
 
     Returns
     -------
@@ -144,14 +150,14 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         grid = np.sort(celsius_to_kelvin(np.asarray(temperatures_C, dtype=float).ravel()))
         if grid.size < 3 or not np.all(np.isfinite(grid)) or grid[0] <= 0 or np.any(np.diff(grid) <= 0):
             raise InputError(None, "temperatures_C", "give three or more distinct finite temperatures above -273.15 °C")
-    curves = [ProductCurve(alloy, p) if alloy.sequence or hasattr(p, "equilibrium_fraction") else p
-              for p in alloy.products]
+    within = decomposition and (alloy.sequence or any(hasattr(p, "equilibrium_fraction") for p in alloy.products))
+    curves = [ProductCurve(alloy, p) if within else p for p in alloy.products]
     times, noses = solve_ttt(curves, grid, fr)
     names = tuple(p.name for p in alloy.products)
     models = {p.name: p.model for p in alloy.products}
     uppers = {p.name: p.upper_K for p in alloy.products}
     regions = ()
-    if overall and len(alloy.products) > 1:
+    if overall and decomposition and len(alloy.products) > 1:
         whole = OverallCurve(alloy)
         overall_times, overall_noses = solve_ttt([whole], grid, fr)
         times.update(overall_times)
