@@ -320,3 +320,34 @@ class CCTResult:
                 rows["time_s"] += times[ok].tolist()
                 rows["temperature_C"] += kelvin_to_celsius(temps[ok]).tolist()
         return {k: np.array(v, dtype=object if k in ("curve", "edge") else float) for k, v in rows.items()}
+
+
+@dataclass(frozen=True)
+class PlanResult:
+    """A heat-treat plan for one route, as data.
+
+    ``rows``: column -> array over the candidate temperatures (temperature_C, feasible,
+    hold_time_s, governing, and the route's own columns); ``window_C``: [lowest, highest]
+    feasible temperature (edges refined by bisection), or None; ``recommendation``: the
+    chosen temperature, hold time and reason (or None); ``no_window``: the nearest feasible
+    change where nothing works.
+    """
+
+    route: str
+    alloy: str
+    rows: dict
+    window_C: object
+    recommendation: object
+    no_window: object
+    options: dict
+    critical_K: dict
+    cautions: tuple = ()
+    warnings: tuple = ()
+    inputs: dict = field(default_factory=dict)
+    provenance: dict = field(default_factory=dict)
+
+    def to_frame(self):
+        """The candidates as a pandas table, one row per temperature."""
+        import pandas as pd
+
+        return pd.DataFrame({k: np.asarray(v) for k, v in self.rows.items()})

@@ -279,3 +279,57 @@ def cct_summary(result) -> dict:
 def write_cooling_csv(result, target: Path):
     """Phases along each path: path, time_s, temperature_C and one column per phase."""
     write_columns_csv(result.columns(), target)
+
+
+def _plain(value):
+    if isinstance(value, (np.bool_, bool)):
+        return bool(value)
+    if isinstance(value, (np.floating, float)):
+        return float(value) if np.isfinite(value) else None
+    if isinstance(value, (np.integer, int)):
+        return int(value)
+    return str(value)
+
+
+def plan_summary(result) -> dict:
+    """The plan as a heat-treat sheet can take it: options, window, recommendation, candidates."""
+    columns = list(result.rows)
+    n = len(result.rows["temperature_C"])
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy,
+        "route": result.route,
+        "options": {k: _plain(v) if v is not None else None for k, v in result.options.items()},
+        "window_C": None if result.window_C is None else [round(float(x), 3) for x in result.window_C],
+        "recommendation": None if result.recommendation is None else {
+            k: _plain(v) for k, v in result.recommendation.items()},
+        "no_window": result.no_window,
+        "candidates": [{c: _plain(np.asarray(result.rows[c])[k]) for c in columns} for k in range(n)],
+        "critical_temperatures_C": {k: round(float(kelvin_to_celsius(v)), 3) for k, v in result.critical_K.items()
+                                    if np.isfinite(v)},
+        "cautions": list(result.cautions),
+        "warnings": list(result.warnings),
+        "model_choices": result.provenance,
+        "inputs": result.inputs,
+        "note": CAUTION_SHORT,
+    }
+
+
+def write_plan_csv(result, target: Path):
+    write_columns_csv({k: np.asarray(v) for k, v in result.rows.items()}, target)
+
+
+def write_plan_xlsx(result, curves, target: Path):
+    """A spreadsheet: the plan's candidates, a summary sheet, and the curves (openpyxl through pandas)."""
+    import pandas as pd
+
+    summary = plan_summary(result)
+    head = [("alloy", result.alloy), ("route", result.route),
+            ("window_C", "" if result.window_C is None else f"{result.window_C[0]:.2f} to {result.window_C[1]:.2f}")]
+    head += [(f"recommended {k}", v) for k, v in (summary["recommendation"] or {}).items()]
+    head += [("no window", result.no_window or ""), ("isokin version", __version__)]
+    head += [("caution", c) for c in result.cautions] + [("note", CAUTION_SHORT)]
+    with pd.ExcelWriter(target, engine="openpyxl") as book:
+        pd.DataFrame(head, columns=["item", "value"]).to_excel(book, sheet_name="summary", index=False)
+        result.to_frame().to_excel(book, sheet_name="plan", index=False)
+        curves.to_frame().to_excel(book, sheet_name="curves", index=False)

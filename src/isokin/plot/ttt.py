@@ -156,10 +156,14 @@ def _fraction_styles(fractions):
     return [FRACTION_STYLES.get(round(float(x), 6)) or next(extra) for x in fractions]
 
 
-def ttt_figure(result: TTTResult, footer_extra="", units="C"):
-    """A whole figure for a report: the diagram and a footer with the model and the cautions."""
+def ttt_figure(result: TTTResult, footer_extra="", units="C", plan=None):
+    """A whole figure for a report: the diagram (with a plan's window, if given) and a footer
+    with the model and the cautions."""
     fig, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
-    plot_ttt(result, ax, units)
+    if plan is None:
+        plot_ttt(result, ax, units)
+    else:
+        plot_plan(plan, result, ax, units)
     footer = "\n".join(textwrap.wrap(" · ".join(s for s in (result.footer, footer_extra) if s), 150))
     if result.warnings:
         footer += (f"\n{len(result.warnings)} warning(s) for this input, such as a composition outside a model's "
@@ -242,3 +246,21 @@ def _mark_noses(ax, result: TTTResult, x_label, line_C, units):
             bbox={"boxstyle": "square,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85},
             arrowprops={"arrowstyle": "-", "color": colour, "linewidth": 0.6, "shrinkA": 0, "shrinkB": 4},
         )
+
+
+def plot_plan(plan, result: TTTResult, ax=None, units="C"):
+    """The isothermal diagram with the plan's window shaded and the recommendation marked."""
+    ax = plot_ttt(result, ax, units)
+    if plan.window_C is not None:
+        lo, hi = (float(to_units(t, units)) for t in plan.window_C)
+        ax.axhspan(lo, hi, color="#9fd4a6", alpha=0.35, zorder=0, linewidth=0)
+        ax.text(0.005, hi, f" {plan.route} window {lo:.0f}-{hi:.0f} °{units}", transform=ax.get_yaxis_transform(),
+                va="bottom", ha="left", fontsize=8, color="#1d5b28")
+    if plan.recommendation is not None:
+        y = float(to_units(plan.recommendation["temperature_C"], units))
+        t = plan.recommendation["hold_time_s"]
+        ax.plot(t, y, marker="P", markersize=11, color="#1d5b28", markeredgecolor="white", zorder=8)
+        ax.annotate(f"recommended {y:.0f} °{units}, hold {format_duration(t)}", (t, y), xytext=(8, -14),
+                    textcoords="offset points", fontsize=8, color="#1d5b28", zorder=8)
+    ax.set_title(f"Plan ({plan.route}): {literal(result.alloy)}", fontsize=11, loc="left")
+    return ax

@@ -1,0 +1,363 @@
+"""Heat-treat planning: hold windows for austempering, interrupted quench and isothermal annealing.
+
+Each route scans hold temperatures, tests each against its conditions with a margin
+function (positive where the condition holds, in ln s or in K), refines the edges of the
+window by bisection to :data:`EDGE_TOLERANCE_K`, and recommends one temperature with the
+reason. Where no temperature works, the plan says so with the nearest feasible change.
+Every number is a model estimate: a trial heat treatment confirms it.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..constants import celsius_to_kelvin, kelvin_to_celsius
+from ..errors import InputError
+from .cooling import constant_rate, cool, lumped_time_constant
+from .decomposition import Decomposition, ProductCurve, hold
+
+#: Above about this the bainite of an austempering hold is upper bainite, coarser and less
+#: tough; austempering for toughness is done below it (common practice, from memory).
+LOWER_BAINITE_BELOW_C = 400.0
+#: Austempering: ferrite + pearlite after the hold must stay under this share of the part.
+SOFT_LIMIT = 0.01
+#: Window edges are refined to this, K.
+EDGE_TOLERANCE_K = 0.01
+#: Hold temperatures scanned, K apart.
+SCAN_STEP_K = 2.0
+#: Defaults of the routes.
+DEFAULT_MAX_HOLD_S = 4 * 3600.0
+DEFAULT_MARGIN_K = 20.0
+DEFAULT_SAFETY = {"austemper": 1.5, "interrupted-quench": 2.0, "anneal": 1.5}
+DEFAULT_BUDGET_S = 8 * 3600.0
+#: Interrupted quench: hold temperatures from Ms + margin up to this much above Ms, K.
+INTERRUPTED_SPAN_K = 60.0
+#: Interrupted quench: the part has equalized when within this of the bath, K.
+EQUALIZED_WITHIN_K = 5.0
+#: Cautions each route's output carries.
+ROUTE_CAUTIONS = {
+    "austemper": ("Austempering baths are molten salt (or hot oil) near the hold temperature: water or damp parts "
+                  "entering molten salt can erupt violently; follow the bath supplier's and the plant's safety rules."),
+    "interrupted-quench": ("Martempering uses molten salt or hot oil: fire and splash hazards, and oil above its flash "
+                           "point is a fire risk; follow the plant's safety rules."),
+    "anneal": "Furnace atmospheres and handling of hot loads follow the plant's safety rules.",
+}
+COMMON_CAUTION = ("The specifications that govern the parts and local codes come first; confirm the plan with a trial "
+                  "heat treatment and a qualified metallurgist's sign-off before production.")
+
+
+def _steel_only(alloy, route):
+    if alloy.model != "steel" or alloy.martensite is None:
+        raise InputError(None, "route", f"'{route}' plans a steel (it needs Ms and bainite); this alloy is "
+                         f"model = '{alloy.model}'; 'anneal' works on any alloy")
+    if alloy.batch_shape:
+        raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
+
+
+def _check(name, value, low=0.0, open_low=True):
+    if not (np.isfinite(value) and (value > low if open_low else value >= low)):
+        raise InputError(None, name, f"must be a finite number above {low:g}, got {value!r}")
+
+
+def _times(alloy, T, names, share):
+    """Seconds until each named product makes up ``share`` of the part by itself (within the
+    decomposition), at temperatures T; min over the names."""
+    by_name = {p.name: p for p in alloy.products}
+    out = np.full(np.shape(T), np.inf)
+    for name in names:
+        if name in by_name:
+            out = np.minimum(out, ProductCurve(alloy, by_name[name]).time_to_fraction(T, share))
+    return out
+
+
+def _edges(margin, T_scan, ok):
+    """Window edges: where ``ok`` changes between scan points, the root of ``margin`` by bisection."""
+    edges = []
+    for k in np.nonzero(ok[1:] != ok[:-1])[0]:
+        lo, hi = T_scan[k], T_scan[k + 1]
+        inside_low = ok[k]
+        while hi - lo > EDGE_TOLERANCE_K:
+            mid = 0.5 * (lo + hi)
+            if (float(margin(np.array([mid]))[0]) >= 0.0) == inside_low:
+                lo = mid
+            else:
+                hi = mid
+        edges.append(lo if inside_low else hi)
+    return edges
+
+
+def _required_rates(alloy, start_C, hold_C, avoid=("ferrite", "pearlite")):
+    """Per hold temperature: the slowest constant rate from start_C to it with the named
+    products under 1 % on arrival (additivity), by bisection on ln(rate) to 1 %."""
+    hold_C = np.atleast_1d(hold_C)
+    lo, hi = np.full(hold_C.shape, np.log(1e-3)), np.full(hold_C.shape, np.log(1e4))
+
+    def soft(rates):
+        paths = [constant_rate(r, start_C, h) for r, h in zip(rates, hold_C)]
+        final = cool(alloy, paths).final
+        return sum(final.get(n, 0.0) for n in avoid)
+
+    never = soft(np.exp(hi)) >= 0.01
+    always = soft(np.exp(lo)) < 0.01
+    for _ in range(30):
+        if np.all(hi - lo < np.log(1.01)):
+            break
+        mid = 0.5 * (lo + hi)
+        good = soft(np.exp(mid)) < 0.01
+        hi, lo = np.where(good, mid, hi), np.where(good, lo, mid)
+    return np.where(never, np.nan, np.where(always, 1e-3, np.exp(hi)))
+
+
+def _start_C(alloy, austenitizing_C):
+    if austenitizing_C is not None:
+        return float(austenitizing_C)
+    given = alloy.inputs.get("steel", {}).get("austenitizing_temperature_C")
+    return float(given) if given is not None else float(kelvin_to_celsius(max(float(p.upper_K) for p in alloy.products)))
+
+
+def _microstructure(alloy, T_C, hold_s):
+    after = hold(alloy, T_C, hold_s, milestones=False)
+    return {name: np.asarray(v, dtype=float) for name, v in after.fractions.items()}
+
+
+def _hardness(alloy, fractions, rate_K_s):
+    """HV of the structure after the hold and quench (Maynier et al. 1978 with the quench rate at 700 °C)."""
+    from ..relations.composition import Composition
+    from ..relations.hardness import (
+        hardness_bainite_maynier_1978,
+        hardness_ferrite_pearlite_maynier_1978,
+        hardness_martensite_maynier_1978,
+    )
+
+    c = Composition.from_dict({k: float(v) for k, v in alloy.inputs["composition"].items()})
+    rate = np.nan_to_num(np.asarray(rate_K_s, dtype=float), nan=1.0) * 3600.0
+    parts = [(fractions.get("martensite", 0.0), hardness_martensite_maynier_1978(c, rate)),
+             (fractions.get("bainite", 0.0), hardness_bainite_maynier_1978(c, rate)),
+             (fractions.get("ferrite", 0.0) + fractions.get("pearlite", 0.0),
+              hardness_ferrite_pearlite_maynier_1978(c, rate))]
+    weight = sum(w for w, _ in parts)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        return sum(w * hv for w, hv in parts) / weight
+
+
+def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, safety=None, target_hv=None,
+              austenitizing_C=None):
+    """The austempering window: hold temperatures above Ms + margin where bainite completes
+    (99 % of what can transform) within the maximum hold divided by the safety factor, and
+    where neither ferrite nor pearlite reaches 1 % of the part by the end of the hold.
+
+    Returns
+    -------
+    PlanResult
+        Each candidate temperature with its hold time (completion x safety), when a
+        diffusional product would start, the microstructure and hardness after the hold and
+        quench, and the slowest quench to the bath that keeps ferrite + pearlite under 1 %;
+        the window, its edges, and the recommendation with the reason.
+    """
+    _steel_only(alloy, "austemper")
+    safety = DEFAULT_SAFETY["austemper"] if safety is None else safety
+    for name, value in (("max_hold_s", max_hold_s), ("margin_K", margin_K), ("safety", safety)):
+        _check(name, value, low=1.0 if name == "safety" else 0.0, open_low=name != "margin_K" and name != "safety")
+    ms, bs = float(alloy.critical_K["Ms"]), float(alloy.critical_K["Bs"])
+    low = ms + margin_K
+    T = np.arange(low, max(bs, low + SCAN_STEP_K), SCAN_STEP_K)
+    soft = ("ferrite", "pearlite")
+
+    def parts(T):
+        d = Decomposition(alloy, T)
+        hold_s = d.time_to_total(0.99) * safety
+        shares = d.shares(np.where(np.isfinite(hold_s), hold_s, 0.0))
+        soft_share = sum(shares[n] for n in soft if n in shares)
+        return hold_s, np.where(np.isfinite(hold_s), soft_share, 1.0)
+
+    def margin(T):
+        hold_s, soft_share = parts(T)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            m = np.minimum(np.log(max_hold_s) - np.log(hold_s), np.log(SOFT_LIMIT) - np.log(soft_share))
+        return np.where(T >= low, np.nan_to_num(m, nan=-np.inf, posinf=np.inf), -np.inf)
+
+    hold_s, soft_share = parts(T)
+    start_soft = _times(alloy, T, soft, 0.01)
+    ok = margin(T) >= 0.0
+    with np.errstate(divide="ignore", invalid="ignore"):
+        by_time = np.log(max_hold_s / hold_s) <= np.log(SOFT_LIMIT / soft_share)
+    governing = np.where(by_time, "bainite completion x safety vs the maximum hold",
+                         "ferrite + pearlite after the hold vs 1 %")
+    extra = _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C)
+    extra["upper_bainite"] = kelvin_to_celsius(T) > LOWER_BAINITE_BELOW_C
+    rows = _rows(alloy, T, hold_s, ok, governing, extra)
+    edges = _edges(margin, T, ok) if 0 < ok.sum() < ok.size else []
+    lower = ok & ~extra["upper_bainite"]
+    choice, reason = _choose(rows, lower if lower.any() and target_hv is None else ok, target_hv,
+                             "shortest complete hold" + (f" at or below {LOWER_BAINITE_BELOW_C:g} °C (lower bainite)"
+                                                         if lower.any() else ""))
+    nearest = None
+    if not ok.any():
+        finite = np.isfinite(hold_s)
+        if finite.any() and np.all(soft_share[finite] >= SOFT_LIMIT):
+            worst = float(np.min(soft_share[finite]))
+            nearest = (f"no hold temperature works: ferrite + pearlite reach at least {worst * 100:.1f} % of the part "
+                       "before bainite completes at every temperature above Ms + margin (in this model, pearlite "
+                       "outruns bainite); a quench and temper, or a richer alloy, is the nearer route")
+        elif finite.any():
+            fastest = float(np.min(hold_s[finite]))
+            nearest = (f"no hold temperature works within the maximum hold: the shortest complete hold (x {safety:g}) "
+                       f"is {_duration(fastest)}; allow that much")
+        else:
+            nearest = "no hold temperature works: bainite does not complete above Ms + margin"
+    return _result("austemper", alloy, rows, ok, edges, choice, reason, nearest,
+                   {"max_hold_s": max_hold_s, "margin_K": margin_K, "safety": safety, "target_hv": target_hv,
+                    "austenitizing_C": _start_C(alloy, austenitizing_C)})
+
+
+def _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C):
+    T_C = kelvin_to_celsius(T)
+    finite = np.where(np.isfinite(hold_s), hold_s, 1.0)
+    structure = _microstructure(alloy, T_C, finite)
+    rates = _required_rates(alloy, _start_C(alloy, austenitizing_C), T_C)
+    hv = _hardness(alloy, structure, rates)
+    return {"ferrite_pearlite_alone_1pct_s": start_soft, "required_rate_K_s": rates, "hardness_HV": hv,
+            **{f"after_{name}": v for name, v in structure.items()}}
+
+
+def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPAN_K, thickness_m=None,
+                       heat_transfer_W_m2K=None, shape="plate", austenitizing_C=None):
+    """Interrupted quench (martempering): for bath temperatures just above Ms, the longest
+    equalizing time before 1 % of any product forms, divided by the safety factor.
+
+    With a section (thickness and heat-transfer coefficient) the lumped time to come within
+    5 K of the bath is compared with the safe time, and a warning given where it exceeds it.
+    """
+    _steel_only(alloy, "interrupted-quench")
+    safety = DEFAULT_SAFETY["interrupted-quench"] if safety is None else safety
+    _check("safety", safety, low=1.0, open_low=False)
+    _check("margin_K", margin_K, low=0.0, open_low=False)
+    ms = float(alloy.critical_K["Ms"])
+    T = np.arange(ms + margin_K, ms + margin_K + span_K + 0.5 * SCAN_STEP_K, SCAN_STEP_K)
+    start = Decomposition(alloy, T).time_to_total(0.01)
+    safe = start / safety
+    warnings = []
+    equalize = None
+    if thickness_m is not None or heat_transfer_W_m2K is not None:
+        if thickness_m is None or heat_transfer_W_m2K is None:
+            raise InputError(None, "thickness_m", "give the section thickness and the heat-transfer coefficient together")
+        _check("thickness_m", thickness_m)
+        _check("heat_transfer_W_m2K", heat_transfer_W_m2K)
+        tau, biot = lumped_time_constant(thickness_m, heat_transfer_W_m2K, shape=shape)
+        aus = _start_C(alloy, austenitizing_C)
+        equalize = tau * np.log(np.maximum(aus - kelvin_to_celsius(T), EQUALIZED_WITHIN_K) / EQUALIZED_WITHIN_K)
+        if np.any(equalize > safe):
+            warnings.append("the section needs longer to equalize than the safe time at "
+                            f"{int(np.count_nonzero(equalize > safe))} of {T.size} bath temperatures: choose a hotter "
+                            "bath, a thinner section or a faster quench")
+        if biot > 0.1:
+            warnings.append(f"the Biot number of the section is {biot:.2g}: the core equalizes later than the lumped "
+                            "estimate")
+    ok = np.isfinite(safe) & (safe > 0) & ((equalize <= safe) if equalize is not None else True)
+    rows = _rows(alloy, T, safe, ok, np.full(T.shape, "start of any product (1 %) / safety"),
+                 {"start_any_s": start, **({"equalize_s": equalize} if equalize is not None else {})})
+    choice, reason = _choose(rows, ok, None, "longest safe time", prefer="longest")
+    nearest = None if ok.any() else ("no bath temperature gives the section time to equalize before 1 % of any "
+                                     "product forms: use a thinner section, a stronger quench or a hotter bath")
+    return _result("interrupted-quench", alloy, rows, ok, [], choice, reason, nearest,
+                   {"margin_K": margin_K, "safety": safety, "span_K": span_K, "thickness_m": thickness_m,
+                    "heat_transfer_W_m2K": heat_transfer_W_m2K, "shape": shape}, warnings)
+
+
+def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None):
+    """Isothermal annealing: hold temperatures where the transformation completes (99 % of what
+    can transform, x safety) within the budget without bainite (under 1 % after the hold);
+    the fastest of them is recommended."""
+    if alloy.batch_shape:
+        raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
+    safety = DEFAULT_SAFETY["anneal"] if safety is None else safety
+    _check("budget_s", budget_s)
+    _check("safety", safety, low=1.0, open_low=False)
+    bs = float(alloy.critical_K.get("Bs", 0.0))
+    upper = max(float(p.upper_K) for p in alloy.products if p.name != "bainite")
+    lower = max(bs, min(float(p.lower_K) for p in alloy.products), 0.4 * upper)
+    T = np.arange(lower, upper, SCAN_STEP_K)
+    by_name = [p.name for p in alloy.products]
+
+    def parts(T):
+        d = Decomposition(alloy, T)
+        return d.time_to_total(0.99) * safety, d.transformable
+
+    def margin(T):
+        hold_s, _ = parts(T)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            m = np.log(budget_s) - np.log(hold_s)
+        bainite = _times(alloy, T, ["bainite"], 0.01) if "bainite" in by_name else np.full(np.shape(T), np.inf)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            m = np.minimum(m, np.log(bainite) - np.log(hold_s))
+        return np.nan_to_num(m, nan=-np.inf, posinf=np.inf)
+
+    hold_s, transformable = parts(T)
+    ok = margin(T) >= 0.0
+    extra = {"transformable_share": transformable}
+    if alloy.martensite is not None:
+        finite = np.where(np.isfinite(hold_s), hold_s, 1.0)
+        extra.update({f"after_{k}": v for k, v in _microstructure(alloy, kelvin_to_celsius(T), finite).items()})
+    rows = _rows(alloy, T, hold_s, ok, np.full(T.shape, "completion x safety vs the budget"), extra)
+    edges = _edges(margin, T, ok) if 0 < ok.sum() < ok.size else []
+    choice, reason = _choose(rows, ok, None, "fastest complete transformation")
+    nearest = None
+    if not ok.any():
+        fastest = float(np.nanmin(hold_s)) if np.isfinite(hold_s).any() else None
+        nearest = (f"no temperature completes within the budget: the fastest needs {_duration(fastest)} "
+                   f"(x {safety:g})" if fastest else "no temperature completes the transformation")
+    return _result("anneal", alloy, rows, ok, edges, choice, reason, nearest,
+                   {"budget_s": budget_s, "safety": safety})
+
+
+def _duration(t_s):
+    from ..readout import format_duration
+
+    return format_duration(t_s) if t_s is not None and np.isfinite(t_s) else "never"
+
+
+def _rows(alloy, T, hold_s, ok, governing, extra):
+    rows = {"temperature_C": kelvin_to_celsius(T), "feasible": ok, "hold_time_s": hold_s, "governing": governing}
+    rows.update({k: np.asarray(v) for k, v in extra.items()})
+    return rows
+
+
+def _choose(rows, ok, target_hv, default_reason, prefer="shortest"):
+    if not ok.any():
+        return None, None
+    idx = np.nonzero(ok)[0]
+    if target_hv is not None and "hardness_HV" in rows:
+        hv = rows["hardness_HV"][idx]
+        k = idx[int(np.nanargmin(np.abs(hv - target_hv)))]
+        return int(k), f"hardness closest to the target {target_hv:g} HV"
+    hold_s = rows["hold_time_s"][idx]
+    k = idx[int(np.argmax(hold_s) if prefer == "longest" else np.argmin(hold_s))]
+    return int(k), default_reason
+
+
+def _result(route, alloy, rows, ok, edges, choice, reason, nearest, options, warnings=()):
+    from ..results import PlanResult
+
+    if ok.any():
+        lo, hi = float(rows["temperature_C"][ok].min()), float(rows["temperature_C"][ok].max())
+        window = [lo, hi]
+        refined = [float(kelvin_to_celsius(e)) for e in edges]
+        for e in refined:  # an edge found by bisection replaces the scan point next to it
+            if abs(e - lo) <= SCAN_STEP_K:
+                window[0] = e
+            elif abs(e - hi) <= SCAN_STEP_K:
+                window[1] = e
+    else:
+        window = None
+    recommendation = None
+    if choice is not None:
+        recommendation = {"temperature_C": float(rows["temperature_C"][choice]),
+                          "hold_time_s": float(rows["hold_time_s"][choice]), "reason": reason}
+        for key in ("required_rate_K_s", "hardness_HV"):
+            if key in rows and np.isfinite(rows[key][choice]):
+                recommendation[key] = float(rows[key][choice])
+    return PlanResult(route=route, alloy=alloy.name, rows=rows, window_C=window, recommendation=recommendation,
+                      no_window=nearest, options=options, critical_K=dict(alloy.critical_K),
+                      cautions=(ROUTE_CAUTIONS[route], COMMON_CAUTION),
+                      warnings=tuple(alloy.warnings) + tuple(warnings), inputs=alloy.inputs,
+                      provenance=dict(alloy.provenance))
