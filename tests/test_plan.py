@@ -69,7 +69,7 @@ def test_no_window_explains_itself_and_is_an_answer(tmp_path):
     assert short.window_C is None and "allow that much" in short.no_window
 
 
-@settings(max_examples=5, deadline=None)
+@settings(max_examples=3, deadline=None)
 @given(hold_h=st.floats(0.05, 2.0), more=st.floats(1.2, 4.0))
 def test_a_longer_maximum_hold_never_narrows_the_window(hold_h, more):
     a = plan.austemper(AISI_4140, max_hold_s=hold_h * 3600.0)
@@ -77,7 +77,7 @@ def test_a_longer_maximum_hold_never_narrows_the_window(hold_h, more):
     assert np.all(b.rows["feasible"][a.rows["feasible"]])
 
 
-@settings(max_examples=5, deadline=None)
+@settings(max_examples=3, deadline=None)
 @given(margin=st.floats(0.0, 40.0), more=st.floats(1.0, 30.0))
 def test_a_larger_margin_never_widens_the_window(margin, more):
     a = plan.austemper(AISI_4140, margin_K=margin)

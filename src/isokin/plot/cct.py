@@ -127,5 +127,6 @@ def report_figure(draw, result, footer, **kwargs):
     text = "\n".join(textwrap.wrap(footer, 150)) if footer else ""
     fig.text(0.01, 0.005, f"{literal(text)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
-    fig.get_layout_engine().set(rect=(0, 0.025 * (text.count("\n") + 2) + 0.015, 1, 0.935))
+    bottom = 0.025 * (text.count("\n") + 2) + 0.015
+    fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
     return fig

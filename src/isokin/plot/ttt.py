@@ -170,7 +170,8 @@ def ttt_figure(result: TTTResult, footer_extra="", units="C", plan=None):
                    "calibrated range: see the summary JSON.")
     fig.text(0.01, 0.005, f"{literal(footer)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
              ha="left", va="bottom")
-    fig.get_layout_engine().set(rect=(0, 0.025 * (footer.count("\n") + 2) + 0.015, 1, 0.935))
+    bottom = 0.025 * (footer.count("\n") + 2) + 0.015
+    fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
     return fig
 
 
@@ -254,8 +255,8 @@ def plot_plan(plan, result: TTTResult, ax=None, units="C"):
     if plan.window_C is not None:
         lo, hi = (float(to_units(t, units)) for t in plan.window_C)
         ax.axhspan(lo, hi, color="#9fd4a6", alpha=0.35, zorder=0, linewidth=0)
-        ax.text(0.005, hi, f" {plan.route} window {lo:.0f}-{hi:.0f} °{units}", transform=ax.get_yaxis_transform(),
-                va="bottom", ha="left", fontsize=8, color="#1d5b28")
+        ax.text(0.99, lo, f"{plan.route} window {lo:.0f}-{hi:.0f} °{units} ", transform=ax.get_yaxis_transform(),
+                va="bottom", ha="right", fontsize=8, color="#1d5b28")
     if plan.recommendation is not None:
         y = float(to_units(plan.recommendation["temperature_C"], units))
         t = plan.recommendation["hold_time_s"]
