@@ -30,6 +30,8 @@ _EXPORTS = {
     "interrupted_quench": "isokin.compute.plan",
     "anneal": "isokin.compute.plan",
     "PlanResult": "isokin.results",
+    "fit": "isokin.compute.fit",
+    "read_measurements": "isokin.io.measurements",
     "TTTResult": "isokin.results",
     "HoldResult": "isokin.results",
     "CoolingResult": "isokin.results",

@@ -351,3 +351,38 @@ class PlanResult:
         import pandas as pd
 
         return pd.DataFrame({k: np.asarray(v) for k, v in self.rows.items()})
+
+
+@dataclass(frozen=True)
+class FitResult:
+    """A calibration: the fitted parameters with intervals, the residuals and the fitted alloy.
+
+    ``values``/``model_values``: parameter -> fitted / starting value; ``intervals``: the
+    confidence interval from the Jacobian; ``bootstrap_intervals``: percentile intervals
+    where a bootstrap was asked for; ``residuals_ln_t``: ln(model time / measured time) per
+    point; ``avrami``: per isotherm, the measured and the model's Avrami exponent.
+    ``alloy`` and ``fitted`` are the live models the fit started from and ended with.
+    """
+
+    alloy: object
+    fitted: object
+    free: tuple
+    values: dict
+    model_values: dict
+    intervals: dict
+    bootstrap_intervals: dict
+    residuals_ln_t: np.ndarray
+    rms_ln_t: float
+    data: object
+    covariance: np.ndarray
+    loss: str
+    avrami: tuple = ()
+    theta: object = None
+
+    def to_frame(self):
+        """One row per free parameter: parameter, model value, fitted value, interval."""
+        import pandas as pd
+
+        return pd.DataFrame([{"parameter": n, "model_value": self.model_values[n], "fitted_value": self.values[n],
+                              "interval_low": self.intervals[n][0], "interval_high": self.intervals[n][1]}
+                             for n in self.free])

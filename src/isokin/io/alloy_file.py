@@ -30,7 +30,14 @@ DIAGRAM_KEYS = {
     "upper_temperature_C": Key(float, low=-273.15, low_open=True, unit="°C"),
     "points": Key(int, low=3, high=MAX_POINTS),
 }
-COMMON_TABLES = ("alloy", "diagram")
+COMMON_TABLES = ("alloy", "diagram", "calibration")
+#: [calibration]: the record a fit leaves in a calibrated file (read back as it is, not used by the physics).
+CALIBRATION_KEYS = {
+    "data_file": Key(str, limit=1000), "data_sha256": Key(str), "date": Key(str), "isokin_version": Key(str),
+    "free": Key(list), "fitted": Key(list), "model_values": Key(list), "interval_low": Key(list),
+    "interval_high": Key(list), "confidence": Key(float, low=0.0, high=1.0), "loss": Key(str),
+    "points": Key(int, low=0), "rms_ln_t": Key(float, low=0.0),
+}
 
 
 def _loaders():
@@ -55,12 +62,16 @@ def load_alloy(path):
         raise InputError(path, "alloy", "required table [alloy] is missing")
     head = read_table(path, "alloy.", data["alloy"], ALLOY_KEYS)
     diagram = read_table(path, "diagram.", data.get("diagram", {}), DIAGRAM_KEYS)
+    if "calibration" in data:
+        read_table(path, "calibration.", data["calibration"], CALIBRATION_KEYS)
     loader = loaders[head["model"]]
     for model, other in loaders.items():
         for name in set(other.TABLES) - set(loader.TABLES):
             if name in data:
                 raise InputError(path, name, f"belongs to model = '{model}'; this alloy is model = '{head['model']}'")
     alloy = loader.load(path, head, data)
+    if "calibration" in data:
+        alloy = alloy.replace(inputs={**alloy.inputs, "calibration": data["calibration"]})
     return _apply_diagram_range(path, alloy, diagram, data.get("diagram", {}))
 
 

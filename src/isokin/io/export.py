@@ -333,3 +333,82 @@ def write_plan_xlsx(result, curves, target: Path):
         pd.DataFrame(head, columns=["item", "value"]).to_excel(book, sheet_name="summary", index=False)
         result.to_frame().to_excel(book, sheet_name="plan", index=False)
         curves.to_frame().to_excel(book, sheet_name="curves", index=False)
+
+
+def calibrated_tables(result, data_name: str, digest: str, date: str) -> dict:
+    """The alloy file's tables with the fitted values in place and a [calibration] record."""
+    import copy
+
+    tables = copy.deepcopy({k: v for k, v in result.alloy.inputs.items() if k != "calibration"})
+    tables["alloy"] = {**tables.get("alloy", {})}
+    base_name = tables["alloy"].get("name", result.alloy.name)
+    if not base_name.endswith("(calibrated)"):
+        tables["alloy"]["name"] = f"{base_name} (calibrated)"[:120]
+    if result.alloy.model == "steel":
+        steel = tables.setdefault("steel", {})
+        kinetics = steel.setdefault("kinetics", {})
+        for name in result.free:
+            product, _, parameter = name.partition(".")
+            entry = kinetics.setdefault(product, {})
+            coefficients = next(p for p in result.fitted.products if p.name == product).coefficients
+            if parameter == "factor":
+                entry["constant"] = float(coefficients.constant)
+            elif parameter == "activation_energy_cal_mol":
+                entry.pop("activation_energy_J_mol", None)
+                entry["activation_energy_cal_mol"] = float(coefficients.activation_energy_cal_mol)
+            else:
+                entry[parameter] = float(getattr(coefficients, parameter))
+        if not kinetics:
+            del steel["kinetics"]
+    else:
+        for item in tables["product"]:
+            for name in result.free:
+                product, _, parameter = name.partition(".")
+                if item.get("name") == product:
+                    item[parameter] = float(result.values[name])
+    tables["calibration"] = {
+        "data_file": data_name,
+        "data_sha256": digest,
+        "date": date,
+        "isokin_version": __version__,
+        "free": list(result.free),
+        "fitted": [float(result.values[n]) for n in result.free],
+        "model_values": [float(result.model_values[n]) for n in result.free],
+        "interval_low": [float(result.intervals[n][0]) for n in result.free],
+        "interval_high": [float(result.intervals[n][1]) for n in result.free],
+        "confidence": 0.95,
+        "loss": result.loss,
+        "points": int(result.data.time_s.size),
+        "rms_ln_t": float(result.rms_ln_t),
+    }
+    return tables
+
+
+def fit_report(result, data_name: str, digest: str, date: str) -> dict:
+    """Parameters with intervals, residuals per point, Avrami exponents, fit quality, the record."""
+    from ..compute.fit import model_times
+
+    model = model_times(result.fitted, result.data)
+    d = result.data
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy.name,
+        "data_file": data_name,
+        "data_sha256": digest,
+        "date": date,
+        "loss": result.loss,
+        "parameters": [{"name": n, "model_value": result.model_values[n], "fitted": result.values[n],
+                        "interval_95": [_plain(v) for v in result.intervals[n]],
+                        **({"bootstrap_interval_95": [_plain(v) for v in result.bootstrap_intervals[n]]}
+                           if n in result.bootstrap_intervals else {})} for n in result.free],
+        "rms_ln_t": result.rms_ln_t,
+        "points": [{"row": int(d.rows[k]) if d.rows else k + 1, "temperature_C": float(kelvin_to_celsius(d.temperature_K[k])),
+                    "fraction": float(d.fraction[k]), "product": d.product[k] or "total",
+                    "measured_time_s": float(d.time_s[k]), "model_time_s": _plain(model[k]),
+                    "residual_ln_t": _plain(result.residuals_ln_t[k])} for k in range(d.time_s.size)],
+        "avrami_exponents": [{k: _plain(v) if not isinstance(v, str) else v for k, v in a.items()}
+                             for a in result.avrami],
+        "meaning": ("residual = ln(model time / measured time); intervals from the Jacobian at the solution "
+                    "(Student t, 95 %); the band of the figure from 100 parameter sets drawn from that covariance"),
+        "note": CAUTION_SHORT,
+    }

@@ -129,6 +129,10 @@ def _check_value(source, where, name, key: Key, value):
             raise InputError(source, label, f"must be a whole number, got {value!r}")
     elif key.kind is str:
         check_text(source, label, value, key.limit)
+    elif key.kind is list:
+        if not isinstance(value, list) or len(value) > 100:
+            raise InputError(source, label, f"must be a list (of at most 100 values), got {value!r}")
+        return value
     if key.choices and value not in key.choices:
         raise InputError(source, label, f"must be one of {', '.join(map(repr, key.choices))}, got {value!r}")
     unit = f" {key.unit}" if key.unit else ""

@@ -273,6 +273,11 @@ def nucleation_growth_alloy(name: str, products, inputs=None) -> Alloy:
     Raises ``ValueError`` for products without distinct names.
     """
     products = tuple(products)
+    batch = np.broadcast_shapes(*(p.batch_shape for p in products))
+    # every product of one alloy shares one batch
+    products = tuple(p if p.batch_shape == batch else
+                     NucleationGrowthProduct(p.name, p.params, np.broadcast_to(np.asarray(p.lower_K, dtype=float), batch))
+                     for p in products)
     names = [p.name for p in products]
     if len(set(names)) != len(names):
         raise ValueError(f"each product needs its own name, got {names}")

@@ -265,7 +265,14 @@ def li1998_products(composition: Composition, grain_size_astm, ms_method: str | 
     bs = bs_steven_haynes_1956(composition)
     uppers = {"ferrite": np.where(hypoeutectoid, ae3, ms), "pearlite": ae1, "bainite": bs}
     lever = LeverRuleFerrite(composition)
-    products = [Li1998Product(name, coefficients[name], composition, grain_size_astm, upper, ms,
+    # every product of one steel shares one batch: that of the composition, the grain size and
+    # any coefficient given as an array (a calibration's parameter sets)
+    shapes = [np.shape(v) for c in coefficients.values() for v in
+              (c.constant, c.undercooling_exponent, c.activation_energy_J_mol, c.grain_size_coefficient,
+               *c.terms.values())]
+    batch = np.broadcast_shapes(composition.shape, np.shape(grain_size_astm), *shapes)
+    grain = np.broadcast_to(np.asarray(grain_size_astm, dtype=float), batch)
+    products = [Li1998Product(name, coefficients[name], composition, grain, upper, ms,
                               equilibrium=lever if name == "ferrite" else None)
                 for name, upper in uppers.items()]
     martensite = Martensite(ms, ms_method=ms_label)

@@ -1,0 +1,298 @@
+"""Calibration: the models fitted to the user's own isothermal measurements, with uncertainty.
+
+Measured points (temperature, fraction, time) are compared in ln t with the model's time to
+that fraction: a product's own curve where the data name the product, the whole
+decomposition (what a dilatometer sees) where they do not. scipy's least_squares fits the
+free parameters with a robust loss (soft L1), so one bad point cannot drag the fit; the
+Jacobian at the solution gives confidence intervals, a bootstrap over the points is an
+option, and parameter sets drawn from the covariance give the band on the fitted curves.
+
+Free parameters are named ``<product>.<parameter>``:
+
+- steels (Li et al. 1998): ``factor`` (a multiplier on F, fitted in its logarithm; it
+  shifts the constant of ln F), ``activation_energy_cal_mol``, ``undercooling_exponent``;
+- physical products: ``interface_energy_J_m2`` (an effective value, standing for gamma
+  with its shape factor), ``diffusion_prefactor_m2_s`` (fitted in its logarithm),
+  ``nucleation_activation_J_mol``, ``diffusion_activation_J_mol``.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import warnings
+
+import numpy as np
+
+from ..constants import CALORIE_J, celsius_to_kelvin
+from ..errors import InputError
+from .decomposition import Decomposition
+
+STEEL_PARAMETERS = ("factor", "activation_energy_cal_mol", "undercooling_exponent")
+PHYSICAL_PARAMETERS = ("interface_energy_J_m2", "diffusion_prefactor_m2_s", "nucleation_activation_J_mol",
+                       "diffusion_activation_J_mol")
+#: Parameters fitted in their logarithm (they span decades and must stay positive).
+LOG_PARAMETERS = ("factor", "diffusion_prefactor_m2_s")
+#: Scale of the robust loss in ln t: residuals beyond about this count linearly, not squared.
+ROBUST_SCALE = 0.2
+#: The confidence level of the reported intervals.
+CONFIDENCE = 0.95
+
+
+@dataclasses.dataclass(frozen=True)
+class Measurements:
+    """Measured points: temperature (K), fraction, time (s), and product (None: the total)."""
+
+    temperature_K: np.ndarray
+    fraction: np.ndarray
+    time_s: np.ndarray
+    product: tuple
+    source: str = "data"
+    rows: tuple = ()
+
+
+def avrami_exponent(time_s, fraction):
+    """The slope n of ln(-ln(1 - X)) against ln t (JMAK's exponent), by least squares.
+
+    >>> t = np.array([1.0, 2.0, 4.0, 8.0])
+    >>> round(avrami_exponent(t, 1 - np.exp(-0.01 * t**2.5)), 12)
+    2.5
+    """
+    x = np.log(np.asarray(time_s, dtype=float))
+    y = np.log(-np.log1p(-np.asarray(fraction, dtype=float)))
+    return float(np.polyfit(x, y, 1)[0])
+
+
+def _base_value(alloy, product, parameter):
+    p = next(q for q in alloy.products if q.name == product)
+    if parameter in STEEL_PARAMETERS:
+        c = p.coefficients
+        return {"factor": 1.0, "activation_energy_cal_mol": float(c.activation_energy_cal_mol),
+                "undercooling_exponent": float(c.undercooling_exponent)}[parameter]
+    return float(getattr(p.params, parameter))
+
+
+def _check_free(alloy, free):
+    names = {p.name for p in alloy.products}
+    allowed = STEEL_PARAMETERS if alloy.model == "steel" else PHYSICAL_PARAMETERS
+    for name in free:
+        product, _, parameter = name.partition(".")
+        if product not in names or parameter not in allowed:
+            raise InputError(None, "free", f"unknown parameter '{name}'; give <product>.<parameter> with a product of "
+                             f"{', '.join(sorted(names))} and a parameter of {', '.join(allowed)}")
+
+
+def default_free(alloy, data: Measurements):
+    """Free parameters when none are named: for each product the data name (or, for data of
+    the whole decomposition, each product that makes up 5 % or more of the part at some
+    measured point), its factor (steels) or its interface energy and diffusion prefactor."""
+    wanted = [n for n in data.product if n is not None]
+    if wanted:
+        forming = [p.name for p in alloy.products if p.name in wanted]
+    else:
+        # the products that make up a real share of what the dilatometer saw
+        shares = Decomposition(alloy, data.temperature_K).shares(data.time_s)
+        forming = [name for name, share in shares.items() if np.any(share >= 0.05)]
+    if alloy.model == "steel":
+        return tuple(f"{n}.factor" for n in forming)
+    return tuple(f"{n}.{k}" for n in forming for k in ("interface_energy_J_m2", "diffusion_prefactor_m2_s"))
+
+
+def with_values(alloy, values: dict):
+    """The alloy with parameters set (``{"bainite.factor": 2.0, ...}``); values may be arrays
+    (a batch of parameter sets)."""
+    if not values:
+        return alloy
+    if alloy.model == "steel":
+        from ..products.steel import steel
+
+        kinetics = {}
+        for name, value in values.items():
+            product, _, parameter = name.partition(".")
+            base = next(p for p in alloy.products if p.name == product).coefficients
+            change = kinetics.setdefault(product, {})
+            if parameter == "factor":
+                change["constant"] = base.constant + np.log(value)
+            elif parameter == "activation_energy_cal_mol":
+                change["activation_energy_J_mol"] = np.asarray(value) * CALORIE_J
+            else:
+                change[parameter] = np.asarray(value)
+        kept = {p.name: p.coefficients for p in alloy.products if p.name not in kinetics}
+        overrides = {**kept, **{name: dataclasses.replace(next(p for p in alloy.products if p.name == name).coefficients,
+                                                          **change) for name, change in kinetics.items()}}
+        steel_options = alloy.inputs.get("steel", {})
+        return steel({k: float(v) for k, v in alloy.inputs["composition"].items()},
+                     steel_options.get("grain_size_astm"), name=alloy.name,
+                     austenitizing_temperature_C=steel_options.get("austenitizing_temperature_C"),
+                     ms_method=steel_options.get("ms_method"), kinetics=overrides, inputs=alloy.inputs)
+    from ..products.nucleation_growth import NucleationGrowthProduct, nucleation_growth_alloy
+
+    products = []
+    for p in alloy.products:
+        changes = {name.partition(".")[2]: np.asarray(v) for name, v in values.items() if name.partition(".")[0] == p.name}
+        products.append(NucleationGrowthProduct(p.name, dataclasses.replace(p.params, **changes), p.lower_K)
+                        if changes else p)
+    fitted = nucleation_growth_alloy(alloy.name, products, inputs=alloy.inputs)
+    return fitted.replace(default_range_K=alloy.default_range_K, default_points=alloy.default_points)
+
+
+def model_times(alloy, data: Measurements):
+    """The model's time to each measured fraction, s (batch axes of the alloy leading)."""
+    b = len(alloy.batch_shape)
+    T = data.temperature_K.reshape((1,) * b + (-1,))
+    X = data.fraction.reshape((1,) * b + (-1,))
+    out = np.full(np.broadcast_shapes(alloy.batch_shape + (1,), T.shape), np.inf)
+    products = np.array([p if p is not None else "" for p in data.product], dtype=object)
+    whole = products == ""
+    if whole.any():
+        out[..., whole] = Decomposition(alloy, T[..., whole]).time_to_total(X[..., whole])
+    for p in alloy.products:
+        mine = products == p.name
+        if mine.any():
+            out[..., mine] = p.time_to_fraction(T[..., mine], X[..., mine])
+    return out
+
+
+def _bounds(name, start):
+    """Plausible bounds in the fitted coordinate: four decades either way for a factor or a
+    prefactor, half to twice an energy, a given range for an exponent."""
+    parameter = name.partition(".")[2]
+    if parameter in LOG_PARAMETERS:
+        return start - np.log(1e4), start + np.log(1e4)
+    if parameter == "undercooling_exponent":
+        return 0.5, 6.0
+    return 0.5 * start, 2.0 * start
+
+
+def _to_internal(name, value):
+    return np.log(value) if name.partition(".")[2] in LOG_PARAMETERS else value
+
+
+def _to_values(free, theta):
+    return {n: (np.exp(v) if n.partition(".")[2] in LOG_PARAMETERS else v) for n, v in zip(free, theta)}
+
+
+def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=0):
+    """Fit the free parameters to the measurements.
+
+    Parameters
+    ----------
+    alloy : Alloy
+        One alloy (its parameters are the starting point).
+    data : Measurements
+    free : sequence of str, optional
+        ``<product>.<parameter>`` names; default :func:`default_free`.
+    loss : str
+        least_squares loss: "soft_l1" (default, robust) or "linear" (plain least squares).
+    bootstrap : int
+        Resamples of the points for percentile intervals as well (0: none).
+
+    Returns
+    -------
+    FitResult
+    """
+    from scipy.optimize import least_squares
+    from scipy.stats import t as student_t
+
+    from ..results import FitResult
+
+    if alloy.batch_shape:
+        raise InputError(None, "alloy", "a fit takes one alloy, not a batch")
+    free = tuple(default_free(alloy, data) if free is None else free)
+    _check_free(alloy, free)
+    m, k = data.time_s.size, len(free)
+    start = model_times(alloy, data)
+    bad = ~np.isfinite(start)
+    if bad.any():
+        i = int(np.argmax(bad))
+        row = data.rows[i] if data.rows else i + 1
+        what = data.product[i] or "any product"
+        raise InputError(data.source, f"row {row}", f"{what} cannot reach fraction {data.fraction[i]:g} at "
+                         f"{data.temperature_K[i] - 273.15:g} °C in this model; check the temperature and product")
+    if m < k + 1:
+        raise InputError(data.source, None, f"{m} points cannot fit {k} free parameters; give at least {k + 1}")
+    base = {n: _base_value(alloy, *n.split(".", 1)) for n in free}
+    theta0 = np.array([_to_internal(n, base[n]) for n in free], dtype=float)
+    log_measured = np.log(data.time_s)
+
+    def residuals(theta, index=slice(None)):
+        times = model_times(with_values(alloy, _to_values(free, theta)), data)
+        with np.errstate(divide="ignore"):
+            r = np.log(times) - log_measured
+        return np.where(np.isfinite(r), r, 50.0)[index]
+
+    if k == 0:
+        r = residuals(theta0)
+        return FitResult(alloy=alloy, fitted=alloy, free=(), values={}, model_values={}, intervals={},
+                         bootstrap_intervals={}, residuals_ln_t=r, rms_ln_t=float(np.sqrt(np.mean(r**2))),
+                         data=data, covariance=np.zeros((0, 0)), loss=loss, avrami=_avrami(alloy, data))
+    bounds = np.array([_bounds(n, theta0[i]) for i, n in enumerate(free)]).T
+    solution = least_squares(residuals, theta0, loss=loss, f_scale=ROBUST_SCALE, x_scale="jac", method="trf",
+                             bounds=bounds)
+    theta = solution.x
+    r = residuals(theta)
+    J = solution.jac
+    dof = max(m - k, 1)
+    s2 = float(np.sum(r**2) / dof)
+    try:
+        covariance = np.linalg.inv(J.T @ J) * s2
+    except np.linalg.LinAlgError:
+        covariance = np.full((k, k), np.nan)
+    half = student_t.ppf(0.5 + CONFIDENCE / 2, dof) * np.sqrt(np.clip(np.diag(covariance), 0, None))
+    intervals = {n: tuple(_to_values([n], [v])[n] for v in (theta[i] - half[i], theta[i] + half[i]))
+                 for i, n in enumerate(free)}
+    boot = {}
+    if bootstrap:
+        rng = np.random.default_rng(seed)
+        draws = []
+        for _ in range(int(bootstrap)):
+            pick = rng.integers(0, m, m)
+            # from the fit's own solution, to the precision an interval needs (not 1e-8)
+            again = least_squares(lambda th: residuals(th, pick), theta, loss=loss, f_scale=ROBUST_SCALE,
+                                  x_scale="jac", method="trf", max_nfev=30, bounds=bounds, ftol=1e-5, xtol=1e-5,
+                                  gtol=1e-5)
+            draws.append(again.x)
+        draws = np.array(draws)
+        lo, hi = np.percentile(draws, [50 * (1 - CONFIDENCE), 50 * (1 + CONFIDENCE)], axis=0)
+        boot = {n: (_to_values([n], [lo[i]])[n], _to_values([n], [hi[i]])[n]) for i, n in enumerate(free)}
+    values = _to_values(free, theta)
+    fitted = with_values(alloy, values)
+    return FitResult(alloy=alloy, fitted=fitted, free=free, values={n: float(v) for n, v in values.items()},
+                     model_values=base, intervals=intervals, bootstrap_intervals=boot, residuals_ln_t=r,
+                     rms_ln_t=float(np.sqrt(np.mean(r**2))), data=data, covariance=covariance, loss=loss,
+                     avrami=_avrami(fitted, data), theta=theta)
+
+
+def _avrami(alloy, data):
+    """Per isotherm (and product): the Avrami exponent of the data and of the model at the same fractions."""
+    out = []
+    model = model_times(alloy, data)
+    keys = sorted({(float(T), p) for T, p in zip(data.temperature_K, data.product)}, key=lambda k: (k[0], k[1] or ""))
+    for T, p in keys:
+        pick = (data.temperature_K == T) & np.array([q == p for q in data.product])
+        if pick.sum() >= 3 and np.ptp(data.fraction[pick]) > 0:
+            out.append({"temperature_C": T - 273.15, "product": p or "total",
+                        "measured_n": avrami_exponent(data.time_s[pick], data.fraction[pick]),
+                        "model_n": avrami_exponent(model[pick], data.fraction[pick])})
+    return tuple(out)
+
+
+def band(result, fractions=(0.01, 0.5, 0.99), samples=100, seed=1, temperatures_K=None):
+    """Curves of the fitted model and their band: the 2.5 and 97.5 percentiles of the times over
+    parameter sets drawn from the fit's covariance (one batch). Returns (T_K, times, lo, hi)."""
+    from .ttt import ttt
+
+    fitted = result.fitted
+    T = temperatures_K if temperatures_K is not None else np.linspace(*fitted.default_range_K, 120)
+    centre = ttt(fitted, temperatures_C=T - 273.15, fractions=fractions)
+    name = centre.overall or centre.products[0]
+    if not result.free or not np.all(np.isfinite(result.covariance)):
+        return T, centre.times_s[name], centre.times_s[name], centre.times_s[name]
+    rng = np.random.default_rng(seed)
+    draws = rng.multivariate_normal(result.theta, result.covariance, size=samples)
+    batch = with_values(result.alloy, _to_values(result.free, draws.T))
+    spread = ttt(batch, temperatures_C=T - 273.15, fractions=fractions)
+    times = np.where(np.isfinite(spread.times_s[name]), spread.times_s[name], np.nan)
+    with warnings.catch_warnings():  # no curve at some temperatures: the band is NaN there
+        warnings.filterwarnings("ignore", message="All-NaN slice")
+        lo, hi = np.nanpercentile(times, [2.5, 97.5], axis=0)
+    return T, centre.times_s[name], lo, hi

@@ -1,0 +1,45 @@
+"""A calibration as a figure: measured points over the fitted curves with their band, and the residuals."""
+
+from __future__ import annotations
+
+import matplotlib.pyplot as plt
+import numpy as np
+
+from ..constants import kelvin_to_celsius
+from ..readout import CAUTION_SHORT
+from .ttt import OVERALL_COLOUR, literal
+
+
+def fit_figure(result, curves, units="C"):
+    """``curves`` = (T_K, times, lo, hi) of :func:`isokin.compute.fit.band` at fractions 0.01, 0.5, 0.99."""
+    T, centre, lo, hi = curves
+    to = (lambda c: c * 1.8 + 32.0) if units == "F" else (lambda c: c)
+    fig, (ax, res) = plt.subplots(1, 2, figsize=(10.5, 5.8), layout="constrained", width_ratios=(3, 1.3))
+    y = to(kelvin_to_celsius(T))
+    for k, (style, label) in enumerate(((":", "1 %"), ("-", "50 %"), ("--", "99 %"))):
+        ok = np.isfinite(centre[k])
+        ax.plot(np.where(ok, centre[k], np.nan), y, color=OVERALL_COLOUR, linestyle=style, linewidth=1.8,
+                label=f"fitted, {label}")
+        band = np.isfinite(lo[k]) & np.isfinite(hi[k])
+        if band.any():
+            ax.fill_betweenx(y, np.where(band, lo[k], np.nan), np.where(band, hi[k], np.nan), color="#7fa7c9",
+                             alpha=0.35, linewidth=0)
+    d = result.data
+    points = ax.scatter(d.time_s, to(kelvin_to_celsius(d.temperature_K)), c=d.fraction, cmap="viridis", vmin=0,
+                        vmax=1, s=18, edgecolors="black", linewidths=0.4, zorder=5, label="measured")
+    fig.colorbar(points, ax=ax, label="measured fraction", shrink=0.8)
+    ax.set_xscale("log")
+    ax.set_xlabel("hold time, s (log scale)")
+    ax.set_ylabel(f"hold temperature, °{units}")
+    ax.set_title(f"Calibration: {literal(result.alloy.name)}", fontsize=11, loc="left")
+    ax.grid(True, color="#e4e4e4", linewidth=0.6)
+    ax.legend(fontsize=7.5, loc="upper right")
+    res.axvline(0.0, color="#777777", linewidth=0.8)
+    res.scatter(result.residuals_ln_t, to(kelvin_to_celsius(d.temperature_K)), s=14, color="#a8431a")
+    res.set_xlabel("ln(model / measured time)")
+    res.set_title(f"residuals, rms {result.rms_ln_t:.3f}", fontsize=9, loc="left")
+    res.grid(True, color="#e4e4e4", linewidth=0.6)
+    fig.text(0.01, 0.003, f"band: 95 % of 100 parameter sets from the fit's covariance. {CAUTION_SHORT}",
+             fontsize=6.8, color="#444444", ha="left", va="bottom")
+    fig.get_layout_engine().set(rect=(0, 0.04, 1, 0.955))
+    return fig

@@ -1,0 +1,127 @@
+"""Calibration to measured isothermal holds: recovery, intervals, robustness, files, bad data."""
+
+import json
+import sys
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+import isokin
+from isokin.compute import fit as F
+from isokin.io.measurements import read_measurements
+
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(Path(__file__).parent))
+from test_hardening import run_main  # noqa: E402
+
+STEEL = isokin.load_alloy(ROOT / "alloys" / "aisi-4140-crmo.toml")
+T_C = (380.0, 420.0, 460.0)
+
+
+def synthetic(alloy, truth, noise, seed, temperatures=T_C, points=20, product=None):
+    """Measurements generated from known parameters, with log-normal scatter in time (invented)."""
+    rng = np.random.default_rng(seed)
+    T = np.repeat(np.array(temperatures) + 273.15, points)
+    X = np.tile(np.linspace(0.05, 0.95, points), len(temperatures))
+    names = (product,) * T.size
+    exact = F.model_times(F.with_values(alloy, truth), F.Measurements(T, X, np.ones_like(T), names))
+    noisy = (exact * np.exp(rng.normal(0.0, noise, T.size))).reshape(len(temperatures), points)
+    # a dilatometer records in time order: the fractions rise along each isotherm
+    return F.Measurements(T, X, np.sort(noisy, axis=1).ravel(), names)
+
+
+def test_the_fit_recovers_known_parameters_within_its_intervals():
+    # Coverage over seeds: the 95 % intervals hold the truth in most repeats.
+    truth = {"bainite.factor": 2.0, "bainite.activation_energy_cal_mol": 28000.0}
+    hits, repeats = 0, 12
+    for seed in range(repeats):
+        result = F.fit(STEEL, synthetic(STEEL, truth, 0.08, seed), free=tuple(truth))
+        hits += all(result.intervals[n][0] <= v <= result.intervals[n][1] for n, v in truth.items())
+    assert hits / repeats >= 0.75
+
+
+def test_avrami_regression_recovers_the_exponent():
+    # Synthetic JMAK data, X = 1 - exp(-k t^n), for n = 1, 2.5, 4 (Avrami 1939-41).
+    t = np.geomspace(1.0, 100.0, 12)
+    for n in (1.0, 2.5, 4.0):
+        k = (1.0 / 30.0) ** n
+        X = 1 - np.exp(-k * t**n)
+        keep = (X > 1e-4) & (X < 1 - 1e-9)
+        assert F.avrami_exponent(t[keep], X[keep]) == pytest.approx(n, rel=1e-10)
+
+
+def test_no_free_parameters_reproduce_the_model_and_the_calibrated_file_reloads(tmp_path):
+    data = synthetic(STEEL, {"bainite.factor": 1.5}, 0.05, 3)
+    none = F.fit(STEEL, data, free=())
+    assert none.fitted is STEEL and none.values == {}
+    np.testing.assert_allclose(none.residuals_ln_t, np.log(F.model_times(STEEL, data) / data.time_s), rtol=1e-12)
+    csv = tmp_path / "holds.csv"
+    csv.write_text("temperature_C,time_s,fraction\n" + "".join(
+        f"{T - 273.15:.6f},{float(t)!r},{float(x)!r}\n" for T, t, x in zip(data.temperature_K, data.time_s,
+                                                                   data.fraction)))
+    out = tmp_path / "calibrated.toml"
+    code, text, err, _ = run_main("fit", csv, "--alloy", ROOT / "alloys" / "aisi-4140-crmo.toml", "--out", out,
+                                  "--free", "bainite.factor")
+    assert code == 0, err
+    reloaded = isokin.load_alloy(out)
+    data_again, _ = read_measurements(csv)
+    fitted = F.fit(STEEL, data_again, free=("bainite.factor",)).fitted
+    a, b = isokin.ttt(fitted, points=60), isokin.ttt(reloaded, points=60)
+    for name in a.products:
+        np.testing.assert_allclose(b.times_s[name], a.times_s[name], rtol=1e-9)
+    assert reloaded.inputs["calibration"]["free"] == ["bainite.factor"]
+    report = json.loads((tmp_path / "calibrated-fit.json").read_text())
+    assert report["parameters"][0]["name"] == "bainite.factor" and len(report["points"]) == data.time_s.size
+
+
+def test_a_gross_outlier_moves_the_robust_fit_less_than_plain_least_squares():
+    data = synthetic(STEEL, {"bainite.factor": 2.0}, 0.03, 5)
+    times = data.time_s.copy()
+    times[7] *= 30.0  # one hold read wrong by a factor of 30
+    spoiled = F.Measurements(data.temperature_K, data.fraction, times, data.product)
+    free = ("bainite.factor",)
+    clean = F.fit(STEEL, data, free=free).values["bainite.factor"]
+    robust = F.fit(STEEL, spoiled, free=free).values["bainite.factor"]
+    plain = F.fit(STEEL, spoiled, free=free, loss="linear").values["bainite.factor"]
+    assert abs(np.log(robust / clean)) < abs(np.log(plain / clean))
+
+
+def test_a_physical_alloy_is_fitted_in_its_own_parameters():
+    alloy = isokin.load_alloy(ROOT / "alloys" / "brackwater-ba42-precipitation.toml")
+    truth = {"precipitate.interface_energy_J_m2": 0.105}
+    data = synthetic(alloy, truth, 0.05, 9, temperatures=(300.0, 350.0, 400.0), product="precipitate")
+    result = F.fit(alloy, data, free=tuple(truth))
+    low, high = result.intervals["precipitate.interface_energy_J_m2"]
+    assert low <= 0.105 <= high and high - low < 0.005
+
+
+@pytest.mark.parametrize("text, expected", [
+    ("temperature_C,time_s,fraction\n400,10,1.2\n", "strictly between 0 and 1"),
+    ("temperature_C,time_s,fraction\n400,-10,0.5\n", "positive seconds"),
+    ("temperature_C,time_s,fraction\n400,10,0.5\n400,20,0.3\n", "falls with time"),
+    ("temperature_C,time_s,fraction,product\n900,10,0.5,bainite\n", "cannot reach"),
+    ("temperature_C,time_s,fraction\n400,10,0.5\n", "cannot fit"),
+    ("temperature_C,time_s,fraction,product\n400,10,0.5,sorbite\n", "unknown product"),
+    ("time,fraction\n1,0.5\n", "needs the columns"),
+])
+def test_bad_data_is_named_by_its_row(text, expected, tmp_path):
+    data = tmp_path / "bad.csv"
+    data.write_text(text)
+    code, _, err, _ = run_main("fit", data, "--alloy", ROOT / "alloys" / "aisi-4140-crmo.toml", "--out",
+                               tmp_path / "c.toml", "--free", "bainite.factor", "--free", "ferrite.factor")
+    assert code == 2 and expected in err and len(err.strip().splitlines()) == 1
+
+
+def test_the_demo_fit_never_overwrites_its_input(tmp_path):
+    demo = ROOT / "alloys" / "brackwater-bw52crv-dilatometer.csv"
+    alloy = ROOT / "alloys" / "brackwater-bw52crv.toml"
+    code, _, err, _ = run_main("fit", demo, "--alloy", alloy, "--out", alloy, "--overwrite")
+    assert code == 2 and "never overwrites its input" in err
+    code, out, err, _ = run_main("fit", demo, "--alloy", alloy, "--out", tmp_path / "bw52-cal.toml")
+    assert code == 0, err
+    assert "bainite.factor" in out and (tmp_path / "bw52-cal-fit.png").stat().st_size > 10_000
+    fitted = isokin.load_alloy(tmp_path / "bw52-cal.toml")
+    data, _ = read_measurements(demo)
+    residual = np.log(F.model_times(fitted, data) / data.time_s)
+    assert np.sqrt(np.mean(residual**2)) < 0.1  # the diagram passes through the measurements
