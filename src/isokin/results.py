@@ -386,3 +386,56 @@ class FitResult:
         return pd.DataFrame([{"parameter": n, "model_value": self.model_values[n], "fitted_value": self.values[n],
                               "interval_low": self.intervals[n][0], "interval_high": self.intervals[n][1]}
                              for n in self.free])
+
+
+@dataclass(frozen=True)
+class SpreadResult:
+    """A composition spread, as data.
+
+    ``quantiles_s[name]``: shape (Q, F, N) times at the ``quantile_levels``; ``earliest_s``
+    and ``latest_s``: (F, N), the envelope over the samples; ``nose_quantiles``: per curve the
+    quantiles of the nose temperature and time (Q, F); ``ms_range_K``; ``sensitivity``:
+    elements ranked by their effect on the earliest start; ``nominal``: the TTTResult of
+    the nominal composition; ``compositions``: the samples; ``times_s``: every sample's times.
+    """
+
+    alloy: str
+    samples: int
+    seed: int
+    ranges: dict
+    nominal: TTTResult
+    quantile_levels: np.ndarray
+    quantiles_s: dict
+    earliest_s: dict
+    latest_s: dict
+    nose_quantiles: dict
+    ms_range_K: tuple
+    sensitivity: tuple
+    compositions: dict
+    times_s: dict
+
+    def curve_columns(self) -> dict:
+        """Quantile table: product, fraction, temperature_C, nominal, q05, q50, q95, earliest, latest (s)."""
+        rows = {"product": [], "fraction": [], "temperature_C": [], "nominal_time_s": [], "earliest_time_s": [],
+                "latest_time_s": []}
+        rows.update({f"q{int(round(q * 100)):02d}_time_s": [] for q in self.quantile_levels})
+        T = self.nominal.temperatures_C
+        for name in self.quantiles_s:
+            for k, x in enumerate(self.nominal.fractions):
+                e = self.earliest_s[name][k]
+                ok = np.isfinite(e) & (e <= PRACTICAL_HORIZON_S)
+                n = int(ok.sum())
+                rows["product"] += [name] * n
+                rows["fraction"] += [float(x)] * n
+                rows["temperature_C"] += T[ok].tolist()
+                rows["nominal_time_s"] += self.nominal.times_s[name][k][ok].tolist()
+                rows["earliest_time_s"] += e[ok].tolist()
+                rows["latest_time_s"] += self.latest_s[name][k][ok].tolist()
+                for j, q in enumerate(self.quantile_levels):
+                    rows[f"q{int(round(q * 100)):02d}_time_s"] += self.quantiles_s[name][j, k][ok].tolist()
+        return {k: np.array(v, dtype=object if k == "product" else float) for k, v in rows.items()}
+
+    def to_frame(self):
+        import pandas as pd
+
+        return pd.DataFrame(self.curve_columns())

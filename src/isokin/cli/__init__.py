@@ -650,6 +650,11 @@ def plan(
     htc: Annotated[Optional[float], typer.Option("--htc", parser=_decimal, metavar="W_PER_M2K",
                    help="Interrupted quench: heat-transfer coefficient of the bath, W/(m2 K).")] = None,
     xlsx: Annotated[bool, typer.Option("--xlsx", help="Also write <stem>-plan.xlsx (plan, summary, curves).")] = False,
+    worst_case: Annotated[bool, typer.Option("--worst-case", help="Plan on every heat of the composition range "
+                                             "([composition_range] or --range), not the nominal.")] = False,
+    range_text: RangeOpt = None,
+    samples: SamplesOpt = None,
+    seed: SeedOpt = None,
     composition: CompositionOpt = None,
     grain_size: GrainOpt = None,
     austenitizing_c: AustenitizingOpt = None,
@@ -675,6 +680,8 @@ def plan(
         options = {}
         if safety is not None:
             options["safety"] = safety
+        if worst_case:
+            options["worst_case"] = _heats(alloy, range_text, samples or WORST_CASE_SAMPLES, seed or 0)
         if route == Route.austemper:
             hold_limit = _duration_option(max_hold, "--max-hold")
             options.update({k: v for k, v in (("max_hold_s", hold_limit), ("margin_K", margin_k),
@@ -843,6 +850,195 @@ def fit(
     for a in result.avrami:
         typer.echo(f"  Avrami exponent at {_in_units(a['temperature_C'], units)} ({a['product']}): measured "
                    f"{a['measured_n']:.2f}, model {a['model_n']:.2f}")
+    for p in paths.values():
+        typer.echo(f"wrote {p}")
+    typer.echo(CAUTION)
+
+
+RangeOpt = Annotated[Optional[str], typer.Option("--range", metavar="EL=MIN:MAX,...",
+                     help='Composition range, mass %, e.g. "C=0.38:0.43,Mn=0.75:1.00" (or EL=NOMINAL+-SIGMA).')]
+SamplesOpt = Annotated[Optional[int], typer.Option("--samples", parser=_whole, metavar="N",
+                       help="Heats sampled over the range (Latin hypercube).")]
+SeedOpt = Annotated[Optional[int], typer.Option("--seed", parser=_whole, metavar="N",
+                    help="Seed of the sampling (default 0): the same seed gives the same heats.")]
+#: Heats a worst-case plan samples unless told otherwise.
+WORST_CASE_SAMPLES = 64
+
+
+def _ranges(alloy, text):
+    """The composition range: --range, else the alloy file's [composition_range]."""
+    from ..io.schema import parse_number
+    from ..io.steel_file import read_ranges
+
+    if text is None:
+        raw = alloy.inputs.get("composition_range")
+        if raw is None:
+            raise InputError(None, "--range", 'this alloy has no [composition_range]; give e.g. --range '
+                             '"C=0.38:0.43,Mn=0.75:1.00"')
+        return read_ranges(None, raw)
+    table = {}
+    for item in filter(None, (s.strip() for s in text.split(","))):
+        element, sep, spec = item.partition("=")
+        if "+-" in spec:
+            a, _, b = spec.partition("+-")
+            values = {"nominal": parse_number(a), "uncertainty": parse_number(b)}
+            if None in values.values():
+                values = None
+        else:
+            a, _, b = spec.partition(":")
+            values = [parse_number(a), parse_number(b)] if _ else None
+        if not sep or values is None or (isinstance(values, list) and None in values):
+            raise InputError(None, "--range", f"'{item}' is not EL=MIN:MAX or EL=NOMINAL+-SIGMA, e.g. C=0.38:0.43")
+        table[element.strip()] = values
+    try:
+        return read_ranges(None, table)
+    except InputError as exc:
+        raise InputError(None, "--range", exc.problem) from None
+
+
+def _heats(alloy, range_text, samples, seed):
+    """A batch of heats sampled over the alloy's composition range."""
+    from ..compute.spread import _builder, sample_compositions
+
+    if alloy.model != "steel":
+        raise InputError(None, "--worst-case", "a composition range is for steels")
+    ranges = _ranges(alloy, range_text)
+    mass = sample_compositions({k: float(v) for k, v in alloy.inputs["composition"].items()}, ranges, samples, seed)
+    return _builder(alloy)(mass)
+
+
+@app.command()
+def spread(
+    alloy_file: AlloyArg = None,
+    range_text: RangeOpt = None,
+    samples: SamplesOpt = None,
+    seed: SeedOpt = None,
+    composition: CompositionOpt = None,
+    grain_size: GrainOpt = None,
+    austenitizing_c: AustenitizingOpt = None,
+    ms_method: MsMethodOpt = None,
+    name: NameOpt = None,
+    out: OutOpt = Path("isokin-out"),
+    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    overwrite: OverwriteOpt = False,
+    units: UnitsOpt = Units.C,
+):
+    """How the composition range spreads the curves: bands, the worst-case start, Ms range, drivers.
+
+    Samples heats over the range ([composition_range] of the file or --range), computes all
+    their curves in one pass, and writes <stem>-spread.png, <stem>-spread.csv (quantiles and
+    envelope per product, fraction and temperature) and <stem>-spread.json.
+    """
+    from ..compute.spread import DEFAULT_SAMPLES
+    from ..compute.spread import spread as spread_of
+
+    try:
+        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        if alloy.model != "steel":
+            raise InputError(None, "ALLOY", "a composition spread is for steels")
+        result = spread_of(alloy, _ranges(alloy, range_text), samples or DEFAULT_SAMPLES, seed or 0)
+        paths = _output_paths(out, {"figure": f"{stem}-spread.{fmt.value}", "table": f"{stem}-spread.csv",
+                                    "summary": f"{stem}-spread.json"}, overwrite)
+    except InputError as exc:
+        fail(exc.relocated(keys={"samples": "--samples"}) if not exc.source else exc)
+    _warn(result.nominal)
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from ..io.export import spread_summary, write_columns_csv, write_figure, write_json
+    from ..plot.cct import report_figure
+    from ..plot.spread import plot_spread
+
+    figure = report_figure(plot_spread, result, alloy.footer, units=units.value)
+    try:
+        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
+                paths["table"]: lambda p: write_columns_csv(result.curve_columns(), p),
+                paths["summary"]: lambda p: write_json(spread_summary(result), p)}, out, overwrite)
+    finally:
+        plt.close(figure)
+    typer.echo(f"{alloy.name}: {result.samples} heats over " + ", ".join(
+        f"{e} {a:g}-{b:g}" if k == "range" else f"{e} {a:g}±{b:g}" for e, (k, a, b) in result.ranges.items()))
+    typer.echo(f"  {'curve':<14}{'fraction':>9}  {'nose (5-95 %)':>22}  {'nose time (5-95 %)':>24}")
+    for curve, nq in result.nose_quantiles.items():
+        for k, x in enumerate(result.nominal.fractions):
+            T_lo, T_hi = (kelvin_to_celsius(float(nq["temperature_K"][j, k])) for j in (0, -1))
+            t_lo, t_hi = (float(nq["time_s"][j, k]) for j in (0, -1))
+            if math.isfinite(t_lo) and math.isfinite(t_hi):
+                typer.echo(f"  {curve:<14}{x:>9.3g}  {_in_units(T_lo, units):>10} to {_in_units(T_hi, units):<10}"
+                           f"  {format_duration(t_lo):>10} to {format_duration(t_hi):<10}")
+    ms_lo, ms_hi = (kelvin_to_celsius(t) for t in result.ms_range_K)
+    typer.echo(f"  Ms over the range: {_in_units(ms_lo, units)} to {_in_units(ms_hi, units)}")
+    if result.sensitivity:
+        typer.echo("  what moves the earliest start most (ln of its time across each element's range): " + ", ".join(
+            f"{s['element']} {s['ln_time_per_range']:+.2f}" for s in result.sensitivity))
+    for p in paths.values():
+        typer.echo(f"wrote {p}")
+    typer.echo(CAUTION)
+
+
+@app.command()
+def compare(
+    alloy_files: Annotated[Optional[list[Path]], typer.Argument(help="Alloy files to compare.",
+                                                                 show_default=False)] = None,
+    composition: Annotated[Optional[list[str]], typer.Option("--composition", help="A heat analysis to compare, "
+                           'e.g. "C=0.40,Mn=0.85"; repeatable.')] = None,
+    grain_size: GrainOpt = None,
+    out: OutOpt = Path("isokin-out"),
+    stem: Annotated[str, typer.Option("--stem", help="Name of the output files.")] = "comparison",
+    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    overwrite: OverwriteOpt = False,
+    units: UnitsOpt = Units.C,
+):
+    """Several alloys or heats side by side: their start curves on one figure, and a table of
+    noses, Ms and the critical temperatures. Writes <stem>.png and <stem>.json."""
+    from ..compute.ttt import ttt
+
+    try:
+        alloys = [_load(path, Inline(None, None, None, None, None))[0] for path in alloy_files or []]
+        alloys += [_load(None, Inline(text, grain_size, None, None, None))[0] for text in composition or []]
+        if len(alloys) < 2:
+            raise InputError(None, "ALLOY", "give two or more alloy files or --composition heats to compare")
+        if len(alloys) > 6:
+            raise InputError(None, "ALLOY", f"at most 6 alloys on one figure, got {len(alloys)}")
+        results = [ttt(a) for a in alloys]
+        paths = _output_paths(out, {"figure": f"{_stem(stem)}.{fmt.value}", "summary": f"{_stem(stem)}.json"},
+                              overwrite)
+    except InputError as exc:
+        fail(exc)
+    for r in results:
+        _warn(r)
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from ..io.export import compare_summary, write_figure, write_json
+    from ..plot.cct import report_figure
+    from ..plot.spread import plot_compare
+
+    figure = report_figure(plot_compare, results, "", units=units.value)
+    try:
+        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
+                paths["summary"]: lambda p: write_json(compare_summary(results), p)}, out, overwrite)
+    finally:
+        plt.close(figure)
+    lines = sorted({k for r in results for k in r.critical_K})
+    typer.echo(f"  {'':<34}" + "".join(f"{r.alloy[:22]:>24}" for r in results))
+    for line in lines:
+        typer.echo(f"  {line:<34}" + "".join(
+            f"{_in_units(kelvin_to_celsius(float(r.critical_K[line])), units) if line in r.critical_K else '-':>24}"
+            for r in results))
+    for label in ("start (1 %) nose", "start (1 %) nose time"):
+        cells = []
+        for r in results:
+            n = r.noses[r.overall or r.products[0]]
+            ok = bool(n.forms[0])
+            value = (_in_units(float(n.temperature_C[0]), units) if "time" not in label else
+                     format_duration(float(n.time_s[0]))) if ok else "-"
+            cells.append(f"{value:>24}")
+        typer.echo(f"  {label:<34}" + "".join(cells))
     for p in paths.values():
         typer.echo(f"wrote {p}")
     typer.echo(CAUTION)

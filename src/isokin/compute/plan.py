@@ -59,6 +59,18 @@ def _check(name, value, low=0.0, open_low=True):
         raise InputError(None, name, f"must be a finite number above {low:g}, got {value!r}")
 
 
+def _over(model, T):
+    """T laid out for a model that may hold a batch (the samples of a worst-case plan)."""
+    return np.asarray(T, dtype=float).reshape((1,) * len(model.batch_shape) + np.shape(T))
+
+
+def _worst(values, model, pick=np.max):
+    """The worst over a batch's members (max of a time that must stay short, min of one that
+    must stay long); the value itself for one alloy."""
+    axes = tuple(range(len(model.batch_shape)))
+    return pick(values, axis=axes) if axes else values
+
+
 def _times(alloy, T, names, share):
     """Seconds until each named product makes up ``share`` of the part by itself (within the
     decomposition), at temperatures T; min over the names."""
@@ -141,7 +153,7 @@ def _hardness(alloy, fractions, rate_K_s):
 
 
 def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, safety=None, target_hv=None,
-              austenitizing_C=None):
+              austenitizing_C=None, worst_case=None):
     """The austempering window: hold temperatures above Ms + margin where bainite completes
     (99 % of what can transform) within the maximum hold divided by the safety factor, and
     where neither ferrite nor pearlite reaches 1 % of the part by the end of the hold.
@@ -152,23 +164,28 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
         Each candidate temperature with its hold time (completion x safety), when a
         diffusional product would start, the microstructure and hardness after the hold and
         quench, and the slowest quench to the bath that keeps ferrite + pearlite under 1 %;
-        the window, its edges, and the recommendation with the reason.
+        the window, its edges, and the recommendation with the reason. With
+        ``worst_case`` (a batch of the alloy's heats, e.g. sampled over its composition
+        range) a temperature is feasible only where it is for every heat, hold times are the
+        longest over the heats and Ms the highest; the other columns stay the nominal's.
     """
     _steel_only(alloy, "austemper")
+    model = worst_case if worst_case is not None else alloy
     safety = DEFAULT_SAFETY["austemper"] if safety is None else safety
     for name, value in (("max_hold_s", max_hold_s), ("margin_K", margin_K), ("safety", safety)):
         _check(name, value, low=1.0 if name == "safety" else 0.0, open_low=name != "margin_K" and name != "safety")
-    ms, bs = float(alloy.critical_K["Ms"]), float(alloy.critical_K["Bs"])
+    ms = float(np.max(model.critical_K["Ms"]))
+    bs = float(np.min(model.critical_K["Bs"]))
     low = ms + margin_K
     T = np.arange(low, max(bs, low + SCAN_STEP_K), SCAN_STEP_K)
     soft = ("ferrite", "pearlite")
 
     def parts(T):
-        d = Decomposition(alloy, T)
+        d = Decomposition(model, _over(model, T))
         hold_s = d.time_to_total(0.99) * safety
         shares = d.shares(np.where(np.isfinite(hold_s), hold_s, 0.0))
-        soft_share = sum(shares[n] for n in soft if n in shares)
-        return hold_s, np.where(np.isfinite(hold_s), soft_share, 1.0)
+        soft_share = np.where(np.isfinite(hold_s), sum(shares[n] for n in soft if n in shares), 1.0)
+        return _worst(hold_s, model), _worst(soft_share, model)
 
     def margin(T):
         hold_s, soft_share = parts(T)
@@ -177,7 +194,7 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
         return np.where(T >= low, np.nan_to_num(m, nan=-np.inf, posinf=np.inf), -np.inf)
 
     hold_s, soft_share = parts(T)
-    start_soft = _times(alloy, T, soft, 0.01)
+    start_soft = _worst(_times(model, _over(model, T), soft, 0.01), model, np.min)
     ok = margin(T) >= 0.0
     with np.errstate(divide="ignore", invalid="ignore"):
         by_time = np.log(max_hold_s / hold_s) <= np.log(SOFT_LIMIT / soft_share)
@@ -197,8 +214,8 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
         if finite.any() and np.all(soft_share[finite] >= SOFT_LIMIT):
             worst = float(np.min(soft_share[finite]))
             nearest = (f"no hold temperature works: ferrite + pearlite reach at least {worst * 100:.1f} % of the part "
-                       "before bainite completes at every temperature above Ms + margin (in this model, pearlite "
-                       "outruns bainite); a quench and temper, or a richer alloy, is the nearer route")
+                       "before bainite completes at every temperature above Ms + margin; a quench and temper, a "
+                       "richer alloy or a tighter composition range is the nearer route")
         elif finite.any():
             fastest = float(np.min(hold_s[finite]))
             nearest = (f"no hold temperature works within the maximum hold: the shortest complete hold (x {safety:g}) "
@@ -207,7 +224,7 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
             nearest = "no hold temperature works: bainite does not complete above Ms + margin"
     return _result("austemper", alloy, rows, ok, edges, choice, reason, nearest,
                    {"max_hold_s": max_hold_s, "margin_K": margin_K, "safety": safety, "target_hv": target_hv,
-                    "austenitizing_C": _start_C(alloy, austenitizing_C)})
+                    "austenitizing_C": _start_C(alloy, austenitizing_C), **_worst_note(worst_case)})
 
 
 def _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C):
@@ -221,7 +238,7 @@ def _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C):
 
 
 def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPAN_K, thickness_m=None,
-                       heat_transfer_W_m2K=None, shape="plate", austenitizing_C=None):
+                       heat_transfer_W_m2K=None, shape="plate", austenitizing_C=None, worst_case=None):
     """Interrupted quench (martempering): for bath temperatures just above Ms, the longest
     equalizing time before 1 % of any product forms, divided by the safety factor.
 
@@ -229,12 +246,13 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
     5 K of the bath is compared with the safe time, and a warning given where it exceeds it.
     """
     _steel_only(alloy, "interrupted-quench")
+    model = worst_case if worst_case is not None else alloy
     safety = DEFAULT_SAFETY["interrupted-quench"] if safety is None else safety
     _check("safety", safety, low=1.0, open_low=False)
     _check("margin_K", margin_K, low=0.0, open_low=False)
-    ms = float(alloy.critical_K["Ms"])
+    ms = float(np.max(model.critical_K["Ms"]))
     T = np.arange(ms + margin_K, ms + margin_K + span_K + 0.5 * SCAN_STEP_K, SCAN_STEP_K)
-    start = Decomposition(alloy, T).time_to_total(0.01)
+    start = _worst(Decomposition(model, _over(model, T)).time_to_total(0.01), model, np.min)
     safe = start / safety
     warnings = []
     equalize = None
@@ -261,33 +279,36 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
                                      "product forms: use a thinner section, a stronger quench or a hotter bath")
     return _result("interrupted-quench", alloy, rows, ok, [], choice, reason, nearest,
                    {"margin_K": margin_K, "safety": safety, "span_K": span_K, "thickness_m": thickness_m,
-                    "heat_transfer_W_m2K": heat_transfer_W_m2K, "shape": shape}, warnings)
+                    "heat_transfer_W_m2K": heat_transfer_W_m2K, "shape": shape, **_worst_note(worst_case)}, warnings)
 
 
-def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None):
+def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
     """Isothermal annealing: hold temperatures where the transformation completes (99 % of what
     can transform, x safety) within the budget without bainite (under 1 % after the hold);
     the fastest of them is recommended."""
     if alloy.batch_shape:
         raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
+    model = worst_case if worst_case is not None else alloy
     safety = DEFAULT_SAFETY["anneal"] if safety is None else safety
     _check("budget_s", budget_s)
     _check("safety", safety, low=1.0, open_low=False)
-    bs = float(alloy.critical_K.get("Bs", 0.0))
-    upper = max(float(p.upper_K) for p in alloy.products if p.name != "bainite")
-    lower = max(bs, min(float(p.lower_K) for p in alloy.products), 0.4 * upper)
+    bs = float(np.max(model.critical_K.get("Bs", 0.0)))
+    upper = min(float(np.min(p.upper_K)) for p in model.products if p.name != "bainite") if worst_case is not None \
+        else max(float(p.upper_K) for p in alloy.products if p.name != "bainite")
+    lower = max(bs, min(float(np.min(p.lower_K)) for p in model.products), 0.4 * upper)
     T = np.arange(lower, upper, SCAN_STEP_K)
     by_name = [p.name for p in alloy.products]
 
     def parts(T):
-        d = Decomposition(alloy, T)
-        return d.time_to_total(0.99) * safety, d.transformable
+        d = Decomposition(model, _over(model, T))
+        return _worst(d.time_to_total(0.99) * safety, model), _worst(d.transformable, model, np.min)
 
     def margin(T):
         hold_s, _ = parts(T)
         with np.errstate(divide="ignore", invalid="ignore"):
             m = np.log(budget_s) - np.log(hold_s)
-        bainite = _times(alloy, T, ["bainite"], 0.01) if "bainite" in by_name else np.full(np.shape(T), np.inf)
+        bainite = (_worst(_times(model, _over(model, T), ["bainite"], 0.01), model, np.min) if "bainite" in by_name
+                   else np.full(np.shape(T), np.inf))
         with np.errstate(divide="ignore", invalid="ignore"):
             m = np.minimum(m, np.log(bainite) - np.log(hold_s))
         return np.nan_to_num(m, nan=-np.inf, posinf=np.inf)
@@ -307,7 +328,15 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None):
         nearest = (f"no temperature completes within the budget: the fastest needs {_duration(fastest)} "
                    f"(x {safety:g})" if fastest else "no temperature completes the transformation")
     return _result("anneal", alloy, rows, ok, edges, choice, reason, nearest,
-                   {"budget_s": budget_s, "safety": safety})
+                   {"budget_s": budget_s, "safety": safety, **_worst_note(worst_case)})
+
+
+def _worst_note(worst_case):
+    if worst_case is None:
+        return {}
+    return {"worst_case_heats": int(np.prod(worst_case.batch_shape)),
+            "worst_case": "feasible only where every heat of the range is; hold times the longest, safe times the "
+                          "shortest over the heats"}
 
 
 def _duration(t_s):

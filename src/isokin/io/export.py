@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import errno
 import json
+import math
 import os
 import tempfile
 import warnings
@@ -98,7 +99,8 @@ def _column_text(values: np.ndarray) -> list:
     """Cells of one column: numbers as the shortest text that reads back as the same float, so
     distinct values stay distinct; texts quoted as CSV requires."""
     if values.dtype.kind == "f":
-        return [repr(v) for v in values.tolist()]
+        # a value that does not exist (never formed) is an empty cell, never inf or nan
+        return [repr(v) if math.isfinite(v) else "" for v in values.tolist()]
     if values.dtype.kind in "iub":
         return [str(v) for v in values.tolist()]
     quoted = {v: _csv_text(str(v)) for v in set(values.tolist())}
@@ -412,3 +414,41 @@ def fit_report(result, data_name: str, digest: str, date: str) -> dict:
                     "(Student t, 95 %); the band of the figure from 100 parameter sets drawn from that covariance"),
         "note": CAUTION_SHORT,
     }
+
+
+def spread_summary(result) -> dict:
+    """Noses and Ms over the composition range, the drivers of the spread, the sampling."""
+    noses = {}
+    for curve, q in result.nose_quantiles.items():
+        noses[curve] = {f"{x:g}": {"temperature_C": {f"q{int(round(l * 100)):02d}": _plain(float(kelvin_to_celsius(
+            q["temperature_K"][j, k]))) for j, l in enumerate(result.quantile_levels)},
+            "time_s": {f"q{int(round(l * 100)):02d}": _plain(float(q["time_s"][j, k]))
+                       for j, l in enumerate(result.quantile_levels)}}
+            for k, x in enumerate(result.nominal.fractions)}
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy,
+        "samples": result.samples,
+        "seed": result.seed,
+        "design": "Latin hypercube (scipy.stats.qmc): uniform over [min, max], normal for nominal +- one sigma",
+        "ranges": {e: {"kind": k, "a": a, "b": b} for e, (k, a, b) in result.ranges.items()},
+        "ms_range_C": [round(float(kelvin_to_celsius(t)), 3) for t in result.ms_range_K],
+        "noses": noses,
+        "sensitivity": list(result.sensitivity),
+        "meaning": ("quantiles over the sampled heats; the earliest 1 % curve is the worst case for holds and "
+                    "quenches; null: not formed within the practical horizon"),
+        "note": CAUTION_SHORT,
+    }
+
+
+def compare_summary(results) -> dict:
+    out = []
+    for r in results:
+        n = r.noses[r.overall or r.products[0]]
+        out.append({"alloy": r.alloy, "critical_temperatures_C": {k: round(float(kelvin_to_celsius(v)), 3)
+                                                                   for k, v in r.critical_K.items()},
+                    "start_nose_temperature_C": _plain(float(n.temperature_C[0])) if n.forms[0] else None,
+                    "start_nose_time_s": _plain(float(n.time_s[0])) if n.forms[0] else None,
+                    "inputs": r.inputs})
+    return {"isokin_version": __version__, "alloys": out, "start_meaning": "1 % of what can transform (total)",
+            "note": CAUTION_SHORT}

@@ -14,7 +14,7 @@ from ..products.steel import GRAIN_SIZE_RANGE, MS_METHODS, steel
 from ..relations.composition import ELEMENTS
 from .schema import Key, read_table
 
-TABLES = ("composition", "steel")
+TABLES = ("composition", "steel", "composition_range")
 
 STEEL_KEYS = {
     "grain_size_astm": Key(float, required=True, low=GRAIN_SIZE_RANGE[0], high=GRAIN_SIZE_RANGE[1]),
@@ -61,9 +61,41 @@ def load(source: Path, head: dict, data: dict):
         kinetics = None
     options = read_table(source, "steel.", raw, STEEL_KEYS)
     inputs = {"alloy": data["alloy"], "composition": data["composition"], "steel": data["steel"]}
+    if "composition_range" in data:
+        read_ranges(source, data["composition_range"])  # checked now, used by spread and worst-case plans
+        inputs["composition_range"] = data["composition_range"]
     try:
         return steel(composition, options["grain_size_astm"], name=head["name"],
                      austenitizing_temperature_C=options.get("austenitizing_temperature_C"),
                      ms_method=options.get("ms_method"), kinetics=kinetics, inputs=inputs)
+    except InputError as exc:
+        raise exc.relocated(source) from None
+
+
+def read_ranges(source, table) -> dict:
+    """[composition_range]: element = [min, max] (a standard's range), or element = { nominal = x,
+    uncertainty = s } (a heat analysis with one standard deviation), mass %."""
+    if not isinstance(table, dict):
+        raise InputError(source, "composition_range", "must be a table of elements")
+    out = {}
+    for element, spec in table.items():
+        where = f"composition_range.{element}"
+        if element not in ELEMENTS:
+            raise InputError(source, where, f"unknown element; one of {', '.join(ELEMENTS)}")
+        if isinstance(spec, list):
+            if len(spec) != 2 or not all(isinstance(v, (int, float)) and not isinstance(v, bool) for v in spec):
+                raise InputError(source, where, "must be [min, max] in mass %, e.g. [0.38, 0.43]")
+            out[element] = ("range", float(spec[0]), float(spec[1]))
+        elif isinstance(spec, dict):
+            values = read_table(source, where + ".", spec, {"nominal": Key(float, required=True, low=0.0, high=100.0),
+                                                             "uncertainty": Key(float, required=True, low=0.0,
+                                                                                high=100.0)})
+            out[element] = ("normal", values["nominal"], values["uncertainty"])
+        else:
+            raise InputError(source, where, "must be [min, max] or { nominal = ..., uncertainty = ... }")
+    from ..compute.spread import check_ranges
+
+    try:
+        return check_ranges({}, out)
     except InputError as exc:
         raise exc.relocated(source) from None

@@ -1,0 +1,66 @@
+"""Spread and comparison as figures: bands around the nominal curves, the worst case, several alloys."""
+
+from __future__ import annotations
+
+import matplotlib.pyplot as plt
+import numpy as np
+
+from ..constants import kelvin_to_celsius
+from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, plot_ttt, to_units
+
+
+def plot_spread(result, ax=None, units="C"):
+    """The nominal diagram with the 5-95 % band of every curve, the earliest start (the worst
+    case) drawn boldly, and the range of Ms as a band."""
+    if ax is None:
+        _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
+    plot_ttt(result.nominal, ax, units)
+    y = to_units(result.nominal.temperatures_C, units)
+    for i, name in enumerate(result.quantiles_s):
+        colour = OVERALL_COLOUR if name == result.nominal.overall else PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
+        q = np.where(np.isfinite(result.quantiles_s[name]), result.quantiles_s[name], np.nan)
+        for k in range(q.shape[1]):
+            ax.fill_betweenx(y, q[0, k], q[-1, k], color=colour, alpha=0.12, linewidth=0, zorder=1)
+    worst = result.nominal.overall or result.nominal.products[0]
+    earliest = np.where(np.isfinite(result.earliest_s[worst][0]), result.earliest_s[worst][0], np.nan)
+    ax.plot(earliest, y, color="#c0392b", linewidth=2.6, zorder=6, label="earliest start over the range")
+    lo, hi = (float(to_units(kelvin_to_celsius(t), units)) for t in result.ms_range_K)
+    ax.axhspan(lo, hi, color="#999999", alpha=0.2, zorder=0, linewidth=0)
+    ax.text(0.005, hi, f" Ms {lo:.0f}-{hi:.0f} °{units} over the range", transform=ax.get_yaxis_transform(),
+            va="bottom", ha="left", fontsize=7.5, color="#444444")
+    ax.set_title(f"Spread over the composition range ({result.samples} heats): {literal(result.alloy)}",
+                 fontsize=10.5, loc="left")
+    handles, labels = ax.get_legend_handles_labels()
+    legend = ax.get_legend()
+    if legend is not None:
+        ax.legend(handles=[*legend.legend_handles, *handles[-1:]], fontsize=7.5, loc="lower left", framealpha=0.92)
+    return ax
+
+
+STYLES = ("-", (0, (6, 2)), (0, (2, 1.5)), (0, (8, 2, 2, 2)), (0, (1, 1)), (0, (10, 3, 2, 3, 2, 3)))
+
+
+def plot_compare(results, ax=None, units="C"):
+    """The start curve (1 %, of the whole decomposition where there is one) of several alloys,
+    each in its own line pattern and colour, with their Ms lines."""
+    if ax is None:
+        _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
+    for i, result in enumerate(results):
+        colour = PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
+        style = STYLES[i % len(STYLES)]
+        name = result.overall or result.products[0]
+        t = np.where(result.practical(name)[0], result.times_s[name][0], np.nan)
+        y = to_units(result.temperatures_C, units)
+        ax.plot(t, y, color=colour, linestyle=style, linewidth=2.0, label=literal(result.alloy))
+        if "Ms" in result.critical_K:
+            ms = float(to_units(kelvin_to_celsius(result.critical_K["Ms"]), units))
+            ax.axhline(ms, color=colour, linestyle=style, linewidth=0.9, alpha=0.8)
+            ax.text(0.995, ms, f"Ms {ms:.0f} °{units}", transform=ax.get_yaxis_transform(), ha="right", va="bottom",
+                    fontsize=7, color=colour)
+    ax.set_xscale("log")
+    ax.set_xlabel("hold time, s (log scale)")
+    ax.set_ylabel(f"hold temperature, °{units}")
+    ax.set_title("Transformation start (1 %) compared", fontsize=11, loc="left")
+    ax.grid(True, color="#e4e4e4", linewidth=0.6)
+    ax.legend(fontsize=7.5, loc="best")
+    return ax
