@@ -31,6 +31,8 @@ _EXPORTS = {
     "anneal": "isokin.compute.plan",
     "PlanResult": "isokin.results",
     "fit": "isokin.compute.fit",
+    "spread": "isokin.compute.spread",
+    "SpreadResult": "isokin.results",
     "read_measurements": "isokin.io.measurements",
     "TTTResult": "isokin.results",
     "HoldResult": "isokin.results",

@@ -6,7 +6,7 @@ import matplotlib.pyplot as plt
 import numpy as np
 
 from ..constants import kelvin_to_celsius
-from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, plot_ttt, to_units
+from .ttt import OVERALL_COLOUR, PRODUCT_COLOURS, literal, plot_ttt, to_units
 
 
 def plot_spread(result, ax=None, units="C"):

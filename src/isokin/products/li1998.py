@@ -281,10 +281,13 @@ class Li1998Product:
         """
         T, X, q = as_query(T_K, X)
         log_factor, forms = self._log_time_factor(T, q)
-        S = reaction_integral(X)
-        with np.errstate(over="ignore", invalid="ignore"):  # inf * 0 where S = 0 is discarded
-            t = np.where(S > 0.0, np.exp(log_factor) * S, 0.0)
-        return np.where(forms, t, np.inf)
+        with np.errstate(over="ignore"):
+            factor = np.where(forms, np.exp(log_factor), np.inf)  # on the temperatures' shape only
+        S = np.asarray(reaction_integral(X))
+        if np.all(S > 0.0):
+            return factor * S
+        # X = 0: no time where the product forms, never where it does not
+        return np.where(S > 0.0, factor * np.where(S > 0.0, S, 1.0), np.where(forms, 0.0, np.inf))
 
     def equilibrium_fraction(self, T_K):
         """Share of the austenite the product reaches at completion: the lever rule where one
