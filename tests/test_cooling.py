@@ -178,7 +178,7 @@ def test_cct_and_cool_commands_as_a_user_runs_them(tmp_path):
 
 @pytest.mark.parametrize("text, expected", [
     ("time_s,temperature_C\n0,850\n", "at least two rows"),
-    ("time_s,temperature_C\n0,850\n1,abc\n", "row 3"),
+    ("time_s,temperature_C\n0,850\n1,abc\n", "line 3"),
     ("time,temp\n0,850\n1,800\n", "needs a header"),
     ("time_s,temperature_C\n0,900\n10,880\n", "never cools below"),
 ])

@@ -196,6 +196,26 @@ def _write(writers: dict, out: Path, overwrite: bool):
         fail(f"--out: cannot write into {out} ({exc.strerror or exc}{where}); nothing was written")
 
 
+def _write_run(files: dict, out: Path, overwrite: bool, figure=None):
+    """All files of a run together (see :func:`_write`); ``figure`` = (path, format, make): the
+    figure ``make()`` draws with the non-interactive Agg backend, written with the rest, then closed."""
+    if figure is None:
+        return _write(files, out, overwrite)
+    import matplotlib
+
+    matplotlib.use("Agg")
+    import matplotlib.pyplot as plt
+
+    from ..io.export import write_figure
+
+    path, fmt, make = figure
+    drawn = make()
+    try:
+        _write({path: lambda p: write_figure(drawn, p, fmt), **files}, out, overwrite)
+    finally:
+        plt.close(drawn)
+
+
 AlloyArg = Annotated[
     Optional[Path],
     typer.Argument(help="Alloy file (TOML). Leave out when giving --composition.", show_default=False),
@@ -268,23 +288,12 @@ def diagram(
     result = ttt(alloy, temperatures_C=kelvin_to_celsius(grid), fractions=fr)
     _warn(result)
 
-    import matplotlib
-
-    matplotlib.use("Agg")
-    from ..io.export import write_curves_csv, write_figure, write_summary_json
+    from ..io.export import write_curves_csv, write_summary_json
     from ..plot.ttt import ttt_figure
 
-    import matplotlib.pyplot as plt
-
-    figure = ttt_figure(result, units=units.value)
-    try:
-        _write({
-            paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
-            paths["curves"]: lambda p: write_curves_csv(result, p),
-            paths["summary"]: lambda p: write_summary_json(result, p),
-        }, out, overwrite)
-    finally:
-        plt.close(figure)
+    _write_run({paths["curves"]: lambda p: write_curves_csv(result, p),
+                paths["summary"]: lambda p: write_summary_json(result, p)}, out, overwrite,
+               (paths["figure"], fmt.value, lambda: ttt_figure(result, units=units.value)))
     typer.echo(f"{alloy.name}: {alloy.model}")
     _print_noses(result, units)
     for p in paths.values():
@@ -486,21 +495,12 @@ def cct(
     except InputError as exc:
         fail(exc)
     _warn(result.cooling)
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from ..io.export import cct_summary, write_columns_csv, write_figure, write_json
+    from ..io.export import cct_summary, write_columns_csv, write_json
     from ..plot.cct import plot_cct, report_figure
 
-    figure = report_figure(plot_cct, result, alloy.footer, units=units.value)
-    try:
-        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
-                paths["curves"]: lambda p: write_columns_csv(result.curve_columns(), p),
-                paths["summary"]: lambda p: write_json(cct_summary(result), p)}, out, overwrite)
-    finally:
-        plt.close(figure)
+    _write_run({paths["curves"]: lambda p: write_columns_csv(result.curve_columns(), p),
+                paths["summary"]: lambda p: write_json(cct_summary(result), p)}, out, overwrite,
+               (paths["figure"], fmt.value, lambda: report_figure(plot_cct, result, alloy.footer, units=units.value)))
     typer.echo(f"{alloy.name}: continuous cooling from {_in_units(result.start_C, units)}")
     _final_table([f"{r:.3g} K/s" for r in result.rates_K_s], result.cooling, units)
     for key, record in result.critical_rates.items():
@@ -586,21 +586,13 @@ def cool(
     except InputError as exc:
         fail(exc)
     _warn(result)
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from ..io.export import cooling_summary, write_cooling_csv, write_figure, write_json
+    from ..io.export import cooling_summary, write_cooling_csv, write_json
     from ..plot.cct import plot_cooling, report_figure
 
-    figure = report_figure(plot_cooling, result, alloy.footer, ttt=isothermal, cct=continuous, units=units.value)
-    try:
-        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
-                paths["along"]: lambda p: write_cooling_csv(result, p),
-                paths["summary"]: lambda p: write_json(cooling_summary(result), p)}, out, overwrite)
-    finally:
-        plt.close(figure)
+    _write_run({paths["along"]: lambda p: write_cooling_csv(result, p),
+                paths["summary"]: lambda p: write_json(cooling_summary(result), p)}, out, overwrite,
+               (paths["figure"], fmt.value, lambda: report_figure(plot_cooling, result, alloy.footer, ttt=isothermal,
+                                                                 cct=continuous, units=units.value)))
     typer.echo(f"{alloy.name}: cooling from {_in_units(start, units)}")
     _final_table(list(result.labels), result, units)
     for k, label in enumerate(result.labels):
@@ -710,24 +702,16 @@ def plan(
                                  "budget_s": "--budget", "thickness_m": "--thickness-mm",
                                  "heat_transfer_W_m2K": "--htc", "route": "--route"}) if not exc.source else exc)
     _warn(result)
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from ..io.export import plan_summary, write_figure, write_json, write_plan_csv, write_plan_xlsx
+    from ..io.export import plan_summary, write_json, write_plan_csv, write_plan_xlsx
     from ..plot.ttt import ttt_figure
 
-    figure = ttt_figure(curves, footer_extra=" ".join(result.cautions[:1]), units=units.value, plan=result)
-    writers = {paths["summary"]: lambda p: write_json(plan_summary(result), p),
-               paths["table"]: lambda p: write_plan_csv(result, p),
-               paths["figure"]: lambda p: write_figure(figure, p, fmt.value)}
+    files = {paths["summary"]: lambda p: write_json(plan_summary(result), p),
+             paths["table"]: lambda p: write_plan_csv(result, p)}
     if xlsx:
-        writers[paths["book"]] = lambda p: write_plan_xlsx(result, curves, p)
-    try:
-        _write(writers, out, overwrite)
-    finally:
-        plt.close(figure)
+        files[paths["book"]] = lambda p: write_plan_xlsx(result, curves, p)
+    _write_run(files, out, overwrite,
+               (paths["figure"], fmt.value, lambda: ttt_figure(curves, footer_extra=" ".join(result.cautions[:1]),
+                                                               units=units.value, plan=result)))
     _print_plan(result, units)
     for p in paths.values():
         typer.echo(f"wrote {p}")
@@ -818,12 +802,7 @@ def fit(
     except InputError as exc:
         fail(exc.relocated(keys={"free": "--free", "data": "DATA"}) if not exc.source else exc)
     date = datetime.now(timezone.utc).replace(microsecond=0).isoformat()
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from ..io.export import calibrated_tables, fit_report, write_figure, write_json
+    from ..io.export import calibrated_tables, fit_report, write_json
     from ..io.toml_out import dumps
     from ..plot.fit import fit_figure
 
@@ -831,13 +810,10 @@ def fit(
               f"Fitted: {', '.join(result.free) or 'nothing'}; rms of ln(model/measured time) {result.rms_ln_t:.3f}.\n"
               "A calibration describes the heat it was measured on; confirm before production.")
     text = dumps(calibrated_tables(result, data_file.name, digest, date), header)
-    figure = fit_figure(result, fitting.band(result), units=units.value)
-    try:
-        _write({paths["alloy"]: lambda p: p.write_text(text, encoding="utf-8"),
-                paths["report"]: lambda p: write_json(fit_report(result, data_file.name, digest, date), p),
-                paths["figure"]: lambda p: write_figure(figure, p, "png")}, out.parent, overwrite)
-    finally:
-        plt.close(figure)
+    _write_run({paths["alloy"]: lambda p: p.write_text(text, encoding="utf-8"),
+                paths["report"]: lambda p: write_json(fit_report(result, data_file.name, digest, date), p)},
+               out.parent, overwrite,
+               (paths["figure"], "png", lambda: fit_figure(result, fitting.band(result), units=units.value)))
     typer.echo(f"{alloy.name}: {data.time_s.size} points, fitted {', '.join(result.free) or 'nothing'}")
     typer.echo(f"  {'parameter':<36}{'model':>12}{'fitted':>12}   95 % interval")
     for name in result.free:
@@ -942,22 +918,13 @@ def spread(
     except InputError as exc:
         fail(exc.relocated(keys={"samples": "--samples"}) if not exc.source else exc)
     _warn(result.nominal)
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from ..io.export import spread_summary, write_columns_csv, write_figure, write_json
+    from ..io.export import spread_summary, write_columns_csv, write_json
     from ..plot.cct import report_figure
     from ..plot.spread import plot_spread
 
-    figure = report_figure(plot_spread, result, alloy.footer, units=units.value)
-    try:
-        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
-                paths["table"]: lambda p: write_columns_csv(result.curve_columns(), p),
-                paths["summary"]: lambda p: write_json(spread_summary(result), p)}, out, overwrite)
-    finally:
-        plt.close(figure)
+    _write_run({paths["table"]: lambda p: write_columns_csv(result.curve_columns(), p),
+                paths["summary"]: lambda p: write_json(spread_summary(result), p)}, out, overwrite,
+               (paths["figure"], fmt.value, lambda: report_figure(plot_spread, result, alloy.footer, units=units.value)))
     typer.echo(f"{alloy.name}: {result.samples} heats over " + ", ".join(
         f"{e} {a:g}-{b:g}" if k == "range" else f"{e} {a:g}±{b:g}" for e, (k, a, b) in result.ranges.items()))
     typer.echo(f"  {'curve':<14}{'fraction':>9}  {'nose (5-95 %)':>22}  {'nose time (5-95 %)':>24}")
@@ -1009,21 +976,12 @@ def compare(
         fail(exc)
     for r in results:
         _warn(r)
-    import matplotlib
-
-    matplotlib.use("Agg")
-    import matplotlib.pyplot as plt
-
-    from ..io.export import compare_summary, write_figure, write_json
+    from ..io.export import compare_summary, write_json
     from ..plot.cct import report_figure
     from ..plot.spread import plot_compare
 
-    figure = report_figure(plot_compare, results, "", units=units.value)
-    try:
-        _write({paths["figure"]: lambda p: write_figure(figure, p, fmt.value),
-                paths["summary"]: lambda p: write_json(compare_summary(results), p)}, out, overwrite)
-    finally:
-        plt.close(figure)
+    _write_run({paths["summary"]: lambda p: write_json(compare_summary(results), p)}, out, overwrite,
+               (paths["figure"], fmt.value, lambda: report_figure(plot_compare, results, "", units=units.value)))
     lines = sorted({k for r in results for k in r.critical_K})
     typer.echo(f"  {'':<34}" + "".join(f"{r.alloy[:22]:>24}" for r in results))
     for line in lines:

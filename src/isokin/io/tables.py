@@ -20,27 +20,35 @@ TEMPERATURE_RANGE_C = (-273.15, 5000.0)
 DGM_LIMIT_J_MOL = 1.0e6
 
 
-def read_driving_force_table(source, where, path: Path) -> DrivingForceTable:
-    """A CSV with columns temperature_C, dGm_J_mol (others ignored) as a DrivingForceTable."""
-    need = DRIVING_FORCE_COLUMNS
-    text = read_input_file(source, where, path, "table file")
+def _numeric_rows(source, key, path, what, columns):
+    """(line, [numbers]) of a CSV's named columns: a header naming them, blank lines and lines
+    starting with # skipped; a cell that is not a plain number is an error naming its line."""
+    text = read_input_file(source, key, path, what)
     try:
-        rows = list(csv.reader(io.StringIO(text, newline="")))
+        rows = [r for r in csv.reader(io.StringIO(text, newline="")) if r and not r[0].lstrip().startswith("#")]
     except csv.Error as exc:
-        raise InputError(source, where, f"table file {path} cannot be read as CSV ({exc})") from None
+        raise InputError(source, key, f"{what} {path} cannot be read as CSV ({exc})") from None
     header = [h.strip() for h in rows[0]] if rows else []
-    missing = [c for c in need if c not in header]
+    missing = [c for c in columns if c not in header]
     if missing:
-        raise InputError(source, where, f"table file {path} needs the columns {', '.join(need)}; missing {', '.join(missing)}")
-    columns = [header.index(c) for c in need]
-    values = []
+        raise InputError(source, key, f"{what} {path} needs a header with {', '.join(columns)}; missing "
+                         f"{', '.join(missing)}")
+    index = [header.index(c) for c in columns]
     for line, row in enumerate(rows[1:], start=2):
         if not any(cell.strip() for cell in row):
             continue
-        numbers = [parse_number(row[j]) if j < len(row) else None for j in columns]
+        numbers = [parse_number(row[j]) if j < len(row) else None for j in index]
         if None in numbers:
-            raise InputError(source, where, f"table file {path}, line {line}: {', '.join(need)} must be "
-                             "plain finite decimal numbers")
+            raise InputError(source, key, f"{what} {path}, line {line}: {', '.join(columns)} must be plain finite "
+                             "decimal numbers")
+        yield line, numbers
+
+
+def read_driving_force_table(source, where, path: Path) -> DrivingForceTable:
+    """A CSV with columns temperature_C, dGm_J_mol (others ignored) as a DrivingForceTable."""
+    need = DRIVING_FORCE_COLUMNS
+    values = []
+    for line, numbers in _numeric_rows(source, where, path, "table file", need):
         t_c, g = numbers
         if not (TEMPERATURE_RANGE_C[0] < t_c <= TEMPERATURE_RANGE_C[1] and abs(g) <= DGM_LIMIT_J_MOL):
             raise InputError(source, where, f"table file {path}, line {line}: temperature_C must lie above "
@@ -71,24 +79,10 @@ def read_cooling_log(path: Path, source=None, key="log"):
     """
     from ..compute.cooling import measured
 
-    text = read_input_file(source, key, path, "cooling log")
-    rows = [r for r in csv.reader(io.StringIO(text, newline="")) if r and not r[0].lstrip().startswith("#")]
-    header = [h.strip() for h in rows[0]] if rows else []
-    missing = [c for c in LOG_COLUMNS if c not in header]
-    if missing:
-        raise InputError(source, key, f"cooling log {path} needs a header with {', '.join(LOG_COLUMNS)}; missing "
-                         f"{', '.join(missing)}")
-    columns = [header.index(c) for c in LOG_COLUMNS]
     values = []
-    for line, row in enumerate(rows[1:], start=2):
-        if not any(cell.strip() for cell in row):
-            continue
-        numbers = [parse_number(row[j]) if j < len(row) else None for j in columns]
-        if None in numbers:
-            raise InputError(source, key, f"cooling log {path}, row {line}: time_s and temperature_C must be plain "
-                             "finite decimal numbers")
+    for line, numbers in _numeric_rows(source, key, path, "cooling log", LOG_COLUMNS):
         if not numbers[1] > -273.15:
-            raise InputError(source, key, f"cooling log {path}, row {line}: temperature_C must lie above -273.15")
+            raise InputError(source, key, f"cooling log {path}, line {line}: temperature_C must lie above -273.15")
         values.append(numbers)
     if len(values) > MAX_LOG_ROWS:
         raise InputError(source, key, f"cooling log {path} has {len(values)} rows; the limit is {MAX_LOG_ROWS}")
