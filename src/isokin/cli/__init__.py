@@ -244,6 +244,7 @@ NameOpt = Annotated[
 UnitsOpt = Annotated[Units, typer.Option("--units", help="Temperatures of the figure and printed tables: C or F "
                                           "(files keep °C).")]
 OutOpt = Annotated[Path, typer.Option("--out", help="Folder for the output files.")]
+FormatOpt = Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")]
 OverwriteOpt = Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")]
 
 
@@ -266,7 +267,7 @@ def diagram(
                                                     help="Highest hold temperature, °C.")] = None,
     points: Annotated[Optional[int], typer.Option("--points", parser=_whole, metavar="N",
                                                   help="Hold temperatures in the grid (3 to 5,000).")] = None,
-    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
 ):
@@ -476,7 +477,7 @@ def cct(
     ms_method: MsMethodOpt = None,
     name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
-    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
 ):
@@ -536,7 +537,7 @@ def cool(
     ms_method: MsMethodOpt = None,
     name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
-    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
 ):
@@ -653,7 +654,7 @@ def plan(
     ms_method: MsMethodOpt = None,
     name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
-    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
 ):
@@ -895,7 +896,7 @@ def spread(
     ms_method: MsMethodOpt = None,
     name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
-    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
 ):
@@ -954,7 +955,7 @@ def compare(
     grain_size: GrainOpt = None,
     out: OutOpt = Path("isokin-out"),
     stem: Annotated[str, typer.Option("--stem", help="Name of the output files.")] = "comparison",
-    fmt: Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")] = FigureFormat.png,
+    fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
 ):
