@@ -233,9 +233,19 @@ class ProductCurve:
         reachable = cap > X
         if np.all((cap == 0.0) | (cap == 1.0)):
             own = X  # the whole parent where it forms: its own fractions, as given (cheap)
-        else:
-            with np.errstate(divide="ignore", invalid="ignore"):
-                own = np.where(reachable, X / np.where(reachable, cap, 1.0), 0.5)
+            return np.where(reachable, delay + self.product.time_to_fraction(d.T, own), np.inf)
+        shape = np.broadcast_shapes(np.shape(reachable), np.shape(delay))
+        out = np.full(shape, np.inf)
+        if self.product.separable and np.ndim(getattr(self.product, "exponent", 0.0)) == 0:
+            # t = delay + F(T) S(X / cap): F on the temperatures, S only where the share is reachable
+            factor = np.broadcast_to(self.product.time_factor(d.T), shape)
+            where = np.broadcast_to(reachable, shape)
+            share = np.broadcast_to(X, shape)[where] / np.broadcast_to(cap, shape)[where]
+            out[where] = (np.broadcast_to(delay, shape)[where]
+                          + factor[where] * self.product.reaction_term(np.minimum(share, 1.0)))
+            return out
+        with np.errstate(divide="ignore", invalid="ignore"):
+            own = np.where(reachable, X / np.where(reachable, cap, 1.0), 0.5)
         return np.where(reachable, delay + self.product.time_to_fraction(d.T, own), np.inf)
 
 

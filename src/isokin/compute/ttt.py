@@ -28,8 +28,11 @@ def product_times(product, temperatures_K, fractions):
     b = len(product.batch_shape)
     T = np.asarray(temperatures_K, dtype=float).reshape((1,) * b + (1, -1))
     X = np.asarray(fractions, dtype=float).reshape((1,) * b + (-1, 1))
-    t = np.broadcast_to(product.time_to_fraction(T, X), product.batch_shape + (X.shape[-2], T.shape[-1]))
-    return np.where(t > 0, t, np.inf)  # guards against a model returning 0 or NaN where nothing forms
+    t = product.time_to_fraction(T, X)
+    shape = product.batch_shape + (X.shape[-2], T.shape[-1])
+    t = np.array(np.broadcast_to(t, shape)) if t.shape != shape or not t.flags.writeable else t
+    np.putmask(t, ~(t > 0), np.inf)  # guards against a model returning 0 or NaN where nothing forms
+    return t
 
 
 def refine_noses(product, temperatures_K, fractions, times_s) -> Noses:

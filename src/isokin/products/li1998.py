@@ -246,11 +246,10 @@ class Li1998Product:
         """ln F(T) in ln(s), and where the product can form, with the batch leading."""
         v = {k: batch_leading(a, len(self._batch_shape), ndim) for k, a in self._values.items()}
         forms = (T >= v["lower"]) & (T < v["upper"])
-        # Outside the window the values are discarded; placeholders keep log and division
-        # free of warnings there.
-        undercooling = np.where(forms, v["upper"] - T, 1.0)
-        T_safe = np.where(forms, T, 1.0)
-        log_factor = v["log_prefactor"] - v["n"] * np.log(undercooling) + v["Q"] / (GAS_CONSTANT_J_MOL_K * T_safe)
+        # Outside the window the values are discarded by the callers (nan or inf there is
+        # never read), so they are computed without masks: fewer passes over large batches.
+        with np.errstate(divide="ignore", invalid="ignore"):
+            log_factor = v["log_prefactor"] - v["n"] * np.log(v["upper"] - T) + v["Q"] / (GAS_CONSTANT_J_MOL_K * T)
         return log_factor, forms
 
     def time_factor(self, T_K):
