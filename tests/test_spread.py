@@ -9,7 +9,8 @@ import pytest
 
 import isokin
 from isokin.compute import plan
-from isokin.compute.spread import _builder, sample_compositions, spread
+from isokin.compute.spread import sampled_heats, spread
+from isokin.products.steel import rebuild
 from isokin.io.steel_file import read_ranges
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -47,10 +48,9 @@ def test_quantiles_converge_as_samples_grow():
 def test_sensitivity_ranking_agrees_with_finite_differences_of_the_model():
     result = spread(AISI_4140, RANGES, samples=1500, seed=5)
     nominal = {k: float(v) for k, v in AISI_4140.inputs["composition"].items()}
-    build = _builder(AISI_4140)
 
     def start(mass):
-        r = isokin.ttt(build(mass), temperatures_C=result.nominal.temperatures_C)
+        r = isokin.ttt(rebuild(AISI_4140, mass), temperatures_C=result.nominal.temperatures_C)
         return float(np.log(r.noses["total"].time_s[0]))
 
     effect = {}
@@ -64,8 +64,7 @@ def test_sensitivity_ranking_agrees_with_finite_differences_of_the_model():
 
 
 def test_the_worst_case_plan_is_never_less_conservative():
-    heats = _builder(AISI_4140)(sample_compositions(
-        {k: float(v) for k, v in AISI_4140.inputs["composition"].items()}, RANGES, 48, seed=3))
+    heats = sampled_heats(AISI_4140, RANGES, 48, seed=3)
     nominal, worst = plan.interrupted_quench(AISI_4140), plan.interrupted_quench(AISI_4140, worst_case=heats)
     assert worst.window_C[0] >= nominal.window_C[0]
     common = np.intersect1d(np.round(nominal.rows["temperature_C"], 6), np.round(worst.rows["temperature_C"], 6))
@@ -77,8 +76,7 @@ def test_the_worst_case_plan_is_never_less_conservative():
     assert worst.window_C[0] >= nominal.window_C[0] - 1e-9 and worst.window_C[1] <= nominal.window_C[1] + 1e-9
     a4340 = isokin.load_alloy(ROOT / "alloys" / "aisi-4340-nicrmo.toml")
     r4340 = read_ranges(None, a4340.inputs["composition_range"])
-    heats = _builder(a4340)(sample_compositions({k: float(v) for k, v in a4340.inputs["composition"].items()},
-                                                r4340, 48, seed=3))
+    heats = sampled_heats(a4340, r4340, 48, seed=3)
     nominal, worst = plan.austemper(a4340), plan.austemper(a4340, worst_case=heats)
     assert worst.window_C[0] >= nominal.window_C[0] and worst.window_C[1] <= nominal.window_C[1] + 1e-9
 

@@ -40,6 +40,7 @@ OPTION_NAMES = {
     "tmax_C": "--tmax-c",
     "points": "--points",
     "fractions": "--fraction",
+    "samples": "--samples",
 }
 
 
@@ -552,9 +553,7 @@ def cool(
 
     try:
         alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
-        top_C = float(kelvin_to_celsius(max(float(p.upper_K) for p in alloy.products)))
-        given = alloy.inputs.get("steel", {}).get("austenitizing_temperature_C")
-        start = start_c if start_c is not None else (given if given is not None else top_C)
+        start = C.default_start_C(alloy) if start_c is None else start_c
         kinds = sum(x is not None and x != [] for x in (rate, log, medium_c))
         if kinds != 1:
             raise InputError(None, "--rate", "give one kind of path: --rate, --log, or --medium-c with "
@@ -566,7 +565,8 @@ def cool(
 
             path = [read_cooling_log(log, key="--log")]
             start = float(kelvin_to_celsius(path[0].temperature_K[0]))
-            if float(path[0].temperature_K.min()) >= max(float(p.upper_K) for p in alloy.products):
+            top_C = C.formation_top_C(alloy)
+            if float(kelvin_to_celsius(path[0].temperature_K.min())) >= top_C:
                 raise InputError(None, "--log", f"{log} never cools below {top_C:.0f} °C, where the first product "
                                  "could form: nothing to predict")
         elif time_constant_s is not None:
@@ -674,7 +674,7 @@ def plan(
         if safety is not None:
             options["safety"] = safety
         if worst_case:
-            options["worst_case"] = _heats(alloy, range_text, samples or WORST_CASE_SAMPLES, seed or 0)
+            options["worst_case"] = _heats(alloy, range_text, samples, seed)
         if route == Route.austemper:
             hold_limit = _duration_option(max_hold, "--max-hold")
             options.update({k: v for k, v in (("max_hold_s", hold_limit), ("margin_K", margin_k),
@@ -838,8 +838,6 @@ SamplesOpt = Annotated[Optional[int], typer.Option("--samples", parser=_whole, m
                        help="Heats sampled over the range (Latin hypercube).")]
 SeedOpt = Annotated[Optional[int], typer.Option("--seed", parser=_whole, metavar="N",
                     help="Seed of the sampling (default 0): the same seed gives the same heats.")]
-#: Heats a worst-case plan samples unless told otherwise.
-WORST_CASE_SAMPLES = 64
 
 
 def _ranges(alloy, text):
@@ -875,13 +873,16 @@ def _ranges(alloy, text):
 
 def _heats(alloy, range_text, samples, seed):
     """A batch of heats sampled over the alloy's composition range."""
-    from ..compute.spread import _builder, sample_compositions
+    from ..compute.spread import sampled_heats
 
     if alloy.model != "steel":
         raise InputError(None, "--worst-case", "a composition range is for steels")
-    ranges = _ranges(alloy, range_text)
-    mass = sample_compositions({k: float(v) for k, v in alloy.inputs["composition"].items()}, ranges, samples, seed)
-    return _builder(alloy)(mass)
+    return sampled_heats(alloy, _ranges(alloy, range_text), **_sampling(samples, seed))
+
+
+def _sampling(samples, seed):
+    """The sampling options given (the library's defaults stand for the rest)."""
+    return {k: v for k, v in (("samples", samples), ("seed", seed)) if v is not None}
 
 
 @app.command()
@@ -906,18 +907,17 @@ def spread(
     their curves in one pass, and writes <stem>-spread.png, <stem>-spread.csv (quantiles and
     envelope per product, fraction and temperature) and <stem>-spread.json.
     """
-    from ..compute.spread import DEFAULT_SAMPLES
     from ..compute.spread import spread as spread_of
 
     try:
         alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
         if alloy.model != "steel":
             raise InputError(None, "ALLOY", "a composition spread is for steels")
-        result = spread_of(alloy, _ranges(alloy, range_text), samples or DEFAULT_SAMPLES, seed or 0)
+        result = spread_of(alloy, _ranges(alloy, range_text), **_sampling(samples, seed))
         paths = _output_paths(out, {"figure": f"{stem}-spread.{fmt.value}", "table": f"{stem}-spread.csv",
                                     "summary": f"{stem}-spread.json"}, overwrite)
     except InputError as exc:
-        fail(exc.relocated(keys={"samples": "--samples"}) if not exc.source else exc)
+        fail(exc)
     _warn(result.nominal)
     from ..io.export import spread_summary, write_columns_csv, write_json
     from ..plot.cct import report_figure

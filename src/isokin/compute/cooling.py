@@ -71,6 +71,18 @@ def _refine(time_s, temperature_K, max_step_K=MAX_STEP_K):
     return t_new, T_new
 
 
+def formation_top_C(alloy) -> float:
+    """The highest temperature at which any product of the alloy could form, °C."""
+    return float(kelvin_to_celsius(max(float(np.max(p.upper_K)) for p in alloy.products)))
+
+
+def default_start_C(alloy) -> float:
+    """Where a cooling starts unless told: the alloy's austenitizing temperature where it
+    gives one, else :func:`formation_top_C`."""
+    given = alloy.inputs.get("steel", {}).get("austenitizing_temperature_C")
+    return float(given) if given is not None else formation_top_C(alloy)
+
+
 def constant_rate(rate_K_s, start_C, end_C=20.0):
     """Cooling at a constant rate from start_C to end_C."""
     rate = float(rate_K_s)
@@ -240,29 +252,17 @@ def _sequence_order(alloy):
 
 
 def hardness(alloy, paths, final):
-    """Vickers hardness at the end of each path (Maynier et al. 1978, volume-fraction mixture of
-    martensite, bainite and ferrite + pearlite; retained austenite not counted), HV; None
-    where the alloy is not a steel."""
+    """Vickers hardness at the end of each path (Maynier et al. 1978 mixture, retained
+    austenite not counted) and the rate at 700 °C it was taken at, °C/h; None where the
+    alloy is not a steel."""
     from ..relations.composition import Composition
-    from ..relations.hardness import (
-        hardness_bainite_maynier_1978,
-        hardness_ferrite_pearlite_maynier_1978,
-        hardness_martensite_maynier_1978,
-    )
+    from ..relations.hardness import hardness_mixture_maynier_1978
 
     if alloy.model != "steel":
         return None
     composition = Composition.from_dict({k: float(v) for k, v in alloy.inputs["composition"].items()})
     rate = np.array([p.rate_at_C_per_h() for p in paths])
-    parts = {
-        "martensite": (final.get("martensite", 0.0), hardness_martensite_maynier_1978(composition, rate)),
-        "bainite": (final.get("bainite", 0.0), hardness_bainite_maynier_1978(composition, rate)),
-        "ferrite + pearlite": (final.get("ferrite", 0.0) + final.get("pearlite", 0.0),
-                               hardness_ferrite_pearlite_maynier_1978(composition, rate)),
-    }
-    weight = sum(share for share, _ in parts.values())
-    with np.errstate(invalid="ignore", divide="ignore"):
-        return sum(share * hv for share, hv in parts.values()) / weight, rate
+    return hardness_mixture_maynier_1978(composition, final, rate), rate
 
 
 def first_reached(t, T, values, level):
@@ -362,8 +362,7 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
     if rates.size > MAX_RATES:
         raise InputError(None, "rates_K_s", f"at most {MAX_RATES} rates in one diagram, got {rates.size}")
     rates = np.sort(rates)
-    top_C = float(kelvin_to_celsius(max(float(np.max(p.upper_K)) for p in alloy.products)))
-    start = top_C if start_C is None else float(start_C)
+    start = formation_top_C(alloy) if start_C is None else float(start_C)
     paths = [constant_rate(r, start, end_C) for r in rates]
     result = cool(alloy, paths)
     t, T, f = result.time_s, result.temperature_K, result.fractions

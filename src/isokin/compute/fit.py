@@ -23,7 +23,7 @@ import warnings
 
 import numpy as np
 
-from ..constants import CALORIE_J, celsius_to_kelvin
+from ..constants import CALORIE_J
 from ..errors import InputError
 from .decomposition import Decomposition
 
@@ -103,7 +103,7 @@ def with_values(alloy, values: dict):
     if not values:
         return alloy
     if alloy.model == "steel":
-        from ..products.steel import steel
+        from ..products.steel import rebuild
 
         kinetics = {}
         for name, value in values.items():
@@ -116,14 +116,8 @@ def with_values(alloy, values: dict):
                 change["activation_energy_J_mol"] = np.asarray(value) * CALORIE_J
             else:
                 change[parameter] = np.asarray(value)
-        kept = {p.name: p.coefficients for p in alloy.products if p.name not in kinetics}
-        overrides = {**kept, **{name: dataclasses.replace(next(p for p in alloy.products if p.name == name).coefficients,
-                                                          **change) for name, change in kinetics.items()}}
-        steel_options = alloy.inputs.get("steel", {})
-        return steel({k: float(v) for k, v in alloy.inputs["composition"].items()},
-                     steel_options.get("grain_size_astm"), name=alloy.name,
-                     austenitizing_temperature_C=steel_options.get("austenitizing_temperature_C"),
-                     ms_method=steel_options.get("ms_method"), kinetics=overrides, inputs=alloy.inputs)
+        return rebuild(alloy, kinetics={p.name: dataclasses.replace(p.coefficients, **kinetics[p.name])
+                                        if p.name in kinetics else p.coefficients for p in alloy.products})
     from ..products.nucleation_growth import NucleationGrowthProduct, nucleation_growth_alloy
 
     products = []

@@ -11,9 +11,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..constants import celsius_to_kelvin, kelvin_to_celsius
+from ..constants import kelvin_to_celsius
 from ..errors import InputError
-from .cooling import constant_rate, cool, lumped_time_constant
+from .cooling import constant_rate, cool, default_start_C, lumped_time_constant
 from .decomposition import Decomposition, ProductCurve, hold
 
 #: Above about this the bainite of an austempering hold is upper bainite, coarser and less
@@ -121,10 +121,7 @@ def _required_rates(alloy, start_C, hold_C, avoid=("ferrite", "pearlite")):
 
 
 def _start_C(alloy, austenitizing_C):
-    if austenitizing_C is not None:
-        return float(austenitizing_C)
-    given = alloy.inputs.get("steel", {}).get("austenitizing_temperature_C")
-    return float(given) if given is not None else float(kelvin_to_celsius(max(float(p.upper_K) for p in alloy.products)))
+    return default_start_C(alloy) if austenitizing_C is None else float(austenitizing_C)
 
 
 def _microstructure(alloy, T_C, hold_s):
@@ -135,21 +132,11 @@ def _microstructure(alloy, T_C, hold_s):
 def _hardness(alloy, fractions, rate_K_s):
     """HV of the structure after the hold and quench (Maynier et al. 1978 with the quench rate at 700 °C)."""
     from ..relations.composition import Composition
-    from ..relations.hardness import (
-        hardness_bainite_maynier_1978,
-        hardness_ferrite_pearlite_maynier_1978,
-        hardness_martensite_maynier_1978,
-    )
+    from ..relations.hardness import hardness_mixture_maynier_1978
 
     c = Composition.from_dict({k: float(v) for k, v in alloy.inputs["composition"].items()})
     rate = np.nan_to_num(np.asarray(rate_K_s, dtype=float), nan=1.0) * 3600.0
-    parts = [(fractions.get("martensite", 0.0), hardness_martensite_maynier_1978(c, rate)),
-             (fractions.get("bainite", 0.0), hardness_bainite_maynier_1978(c, rate)),
-             (fractions.get("ferrite", 0.0) + fractions.get("pearlite", 0.0),
-              hardness_ferrite_pearlite_maynier_1978(c, rate))]
-    weight = sum(w for w, _ in parts)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        return sum(w * hv for w, hv in parts) / weight
+    return hardness_mixture_maynier_1978(c, fractions, rate)
 
 
 def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, safety=None, target_hv=None,

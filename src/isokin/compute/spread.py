@@ -7,6 +7,8 @@ deviation, clipped at 0); every sample's curves come from one batch pass of the 
 
 from __future__ import annotations
 
+from functools import partial
+
 import numpy as np
 
 from ..errors import InputError
@@ -16,6 +18,9 @@ DEFAULT_SAMPLES = 2000
 #: The quantiles reported, besides the envelope (earliest and latest over the samples).
 QUANTILES = (0.05, 0.5, 0.95)
 MAX_SAMPLES = 20_000
+#: Heats a worst-case hold plan samples unless told otherwise: enough to find the corners
+#: of a grade's range at a small part of a full spread's cost (our choice).
+WORST_CASE_SAMPLES = 64
 
 
 def check_ranges(composition: dict, ranges: dict) -> dict:
@@ -63,6 +68,18 @@ def sample_compositions(composition: dict, ranges: dict, samples=DEFAULT_SAMPLES
     return out
 
 
+def sampled_heats(alloy, ranges: dict, samples=WORST_CASE_SAMPLES, seed=0):
+    """A batch of heats sampled over the ranges (:func:`sample_compositions`), each built
+    with the steel's own grain size, options and kinetics: e.g. the worst case of a hold plan."""
+    from ..products.steel import rebuild
+
+    if alloy.model != "steel":
+        raise InputError(None, "composition_range", "a composition range is for steels")
+    ranges = check_ranges(alloy.inputs["composition"], ranges)
+    composition = {k: float(v) for k, v in alloy.inputs["composition"].items()}
+    return rebuild(alloy, sample_compositions(composition, ranges, samples, seed))
+
+
 def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, build=None):
     """The curves of every sampled composition, their quantiles and envelope, the noses' and
     Ms's spread and the elements that drive the spread.
@@ -86,7 +103,10 @@ def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, b
     if alloy.model != "steel":
         raise InputError(None, "composition_range", "a composition spread is for steels")
     ranges = check_ranges(alloy.inputs["composition"], ranges)
-    build = build or _builder(alloy)
+    if build is None:
+        from ..products.steel import rebuild
+
+        build = partial(rebuild, alloy)
     composition = {k: float(v) for k, v in alloy.inputs["composition"].items()}
     nominal_alloy = build(nominal_of(composition, ranges))
     nominal = ttt(nominal_alloy, overall=overall)
@@ -108,20 +128,6 @@ def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, b
         quantile_levels=np.asarray(QUANTILES), quantiles_s=quantiles, earliest_s=earliest, latest_s=latest,
         nose_quantiles=noses, ms_range_K=(float(np.min(ms)), float(np.max(ms))),
         sensitivity=_sensitivity(mass, ranges, result), compositions=mass, times_s=dict(result.times_s))
-
-
-def _builder(alloy):
-    from ..products.steel import steel
-
-    options = alloy.inputs.get("steel", {})
-    kinetics = {p.name: p.coefficients for p in alloy.products}
-
-    def build(mass_percent):
-        return steel(mass_percent, options.get("grain_size_astm"), name=alloy.name,
-                     austenitizing_temperature_C=options.get("austenitizing_temperature_C"),
-                     ms_method=options.get("ms_method"), kinetics=kinetics)
-
-    return build
 
 
 def _sensitivity(mass, ranges, result):

@@ -181,9 +181,13 @@ def write_figure(fig, target: Path, fmt: str, dpi=150):
         fig.savefig(target, dpi=dpi, format=fmt)
 
 
-def _seconds_or_none(value):
+def _finite_or_none(value, digits=6):
     value = float(value)
-    return float(f"{value:.6g}") if np.isfinite(value) and value <= PRACTICAL_HORIZON_S else None
+    return float(f"{value:.{digits}g}") if np.isfinite(value) else None
+
+
+def _seconds_or_none(value):
+    return _finite_or_none(value) if float(value) <= PRACTICAL_HORIZON_S else None
 
 
 def hold_summary(result) -> dict:
@@ -220,11 +224,6 @@ def hold_summary(result) -> dict:
 
 def write_hold_json(result, target: Path):
     write_json(hold_summary(result), target)
-
-
-def _finite_or_none(value, digits=6):
-    value = float(value)
-    return float(f"{value:.{digits}g}") if np.isfinite(value) else None
 
 
 def _cooling_entries(result, index):

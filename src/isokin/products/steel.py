@@ -32,7 +32,7 @@ from ..relations.steel_critical import (
     ms_steven_haynes_1956,
 )
 from .alloy import UPPER_MARGIN_K, Alloy
-from .base import as_query, batch_leading
+from .base import as_query, batch_leading, plain
 from .li1998 import LI1998_KINETICS, LI1998_PROVENANCE, LiCoefficients, Li1998Product
 from .martensite import Martensite
 
@@ -94,11 +94,6 @@ class CriticalTemperature(NamedTuple):
 
     value_K: float | np.ndarray
     method: str
-
-
-def _plain(value):
-    value = np.asarray(value)
-    return float(value) if value.ndim == 0 else value
 
 
 def _ms(composition: Composition, ms_method: str | None):
@@ -278,12 +273,12 @@ def li1998_products(composition: Composition, grain_size_astm, ms_method: str | 
     martensite = Martensite(ms, ms_method=ms_label)
     km = f"Koistinen-Marburger (1959), alpha = {KOISTINEN_MARBURGER_ALPHA_PER_K} /K, from Ms of {ms_label}"
     critical = {
-        "Ae3": CriticalTemperature(_plain(ae3), "Andrews (1965); equals Ae1 at or above eutectoid C"),
-        "Ae1": CriticalTemperature(_plain(ae1), "Andrews (1965)"),
-        "Bs": CriticalTemperature(_plain(bs), "Steven & Haynes (1956)"),
-        "Ms": CriticalTemperature(_plain(ms), ms_label),
-        "M50": CriticalTemperature(_plain(martensite.temperature_for_fraction(0.5)), km),
-        "M90": CriticalTemperature(_plain(martensite.temperature_for_fraction(0.9)), km),
+        "Ae3": CriticalTemperature(plain(ae3), "Andrews (1965); equals Ae1 at or above eutectoid C"),
+        "Ae1": CriticalTemperature(plain(ae1), "Andrews (1965)"),
+        "Bs": CriticalTemperature(plain(bs), "Steven & Haynes (1956)"),
+        "Ms": CriticalTemperature(plain(ms), ms_label),
+        "M50": CriticalTemperature(plain(martensite.temperature_for_fraction(0.5)), km),
+        "M90": CriticalTemperature(plain(martensite.temperature_for_fraction(0.9)), km),
     }
     return products, martensite, critical
 
@@ -410,7 +405,7 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
             lines[key] = np.where(never, np.nan, lines[key])
             if np.all(never):
                 del lines[key]
-    lines = {k: _plain(v) for k, v in lines.items()}
+    lines = {k: plain(v) for k, v in lines.items()}
     methods = {k: critical[k].method for k in lines}
 
     warnings += range_warnings(comp, products[0].calibrated_ranges, "Li et al. (1998)")
@@ -475,3 +470,18 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         sequence={"pearlite": "ferrite"},
         parent="austenite",
     )
+
+
+def rebuild(alloy: Alloy, mass_percent=None, kinetics=None) -> Alloy:
+    """The steel ``alloy`` built again with its own grain size and options, with another
+    analysis (``mass_percent``, e.g. a batch of sampled heats) and/or other kinetics (full
+    coefficient sets by product); default the alloy's own. The input record is kept where
+    the analysis is."""
+    options = alloy.inputs.get("steel", {})
+    own = mass_percent is None
+    return steel({k: float(v) for k, v in alloy.inputs["composition"].items()} if own else mass_percent,
+                 options.get("grain_size_astm"), name=alloy.name,
+                 austenitizing_temperature_C=options.get("austenitizing_temperature_C"),
+                 ms_method=options.get("ms_method"),
+                 kinetics={p.name: p.coefficients for p in alloy.products} if kinetics is None else kinetics,
+                 inputs=alloy.inputs if own else None)

@@ -84,6 +84,36 @@ def hardness_ferrite_pearlite_maynier_1978(composition: Composition, rate_C_per_
             + slope * _log_rate(rate_C_per_h))
 
 
+def hardness_mixture_maynier_1978(composition: Composition, fractions, rate_C_per_h):
+    """Vickers hardness of a martensite / bainite / ferrite + pearlite mixture, HV.
+
+    The volume-fraction average of the three Maynier et al. (1978) relations (common
+    practice); retained austenite is left out of the average. NaN where no share is
+    given a hardness.
+
+    Parameters
+    ----------
+    fractions : mapping
+        Product name to volume fraction (``"martensite"``, ``"bainite"``, ``"ferrite"``,
+        ``"pearlite"``; other names are ignored), floats or arrays broadcasting with the rate.
+
+    Examples
+    --------
+    >>> steel = Composition.from_dict({"C": 0.4, "Mn": 0.8, "Si": 0.25, "Cr": 1.0})
+    >>> round(float(hardness_mixture_maynier_1978(steel, {"martensite": 1.0}, 3.6e5)), 1)
+    643.1
+    """
+    parts = [
+        (fractions.get("martensite", 0.0), hardness_martensite_maynier_1978(composition, rate_C_per_h)),
+        (fractions.get("bainite", 0.0), hardness_bainite_maynier_1978(composition, rate_C_per_h)),
+        (fractions.get("ferrite", 0.0) + fractions.get("pearlite", 0.0),
+         hardness_ferrite_pearlite_maynier_1978(composition, rate_C_per_h)),
+    ]
+    weight = sum(share for share, _ in parts)
+    with np.errstate(invalid="ignore", divide="ignore"):
+        return sum(share * hv for share, hv in parts) / weight
+
+
 #: ASTM E140, Table 1 (non-austenitic steels): Rockwell C against Vickers, a few rows typed
 #: from memory of the standard for interpolation; check against the standard before use.
 E140_HRC = np.array([20.0, 25.0, 30.0, 35.0, 40.0, 45.0, 50.0, 55.0, 60.0, 65.0, 68.0])
