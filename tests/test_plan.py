@@ -98,6 +98,8 @@ def test_a_larger_safety_factor_never_lengthens_the_safe_time(safety, more):
 
 
 def test_anneal_completes_within_the_budget_without_bainite():
+    # Common practice, no source: an isothermal anneal holds in the pearlite range above Bs,
+    # so the part comes out ferrite + pearlite with no bainite, within the furnace time given.
     result = plan.anneal(AISI_4140, budget_s=3600.0)
     ok = result.rows["feasible"]
     assert np.all(result.rows["hold_time_s"][ok] <= 3600.0)
