@@ -130,3 +130,22 @@ def test_inverse_ends_and_refusal():
     assert reaction_integral_inverse(reaction_integral(1.0)) == 1.0
     with pytest.raises(ValueError):
         reaction_integral_inverse(3.0)
+
+
+def test_intervals_found_without_search_are_the_searched_ones():
+    # Reference: numpy.searchsorted on the table's own nodes. The fast lookups (arithmetic
+    # for S, one bucket plus one comparison for the inverse) must land in the interval the
+    # search finds, or next to it only where a value sits on a node (same value either side);
+    # S differs from the searched table by rounding only (v**3 for y**0.6).
+    from isokin.relations import li_reaction as L
+
+    rng = np.random.default_rng(3)
+    y = np.concatenate([0.5 * rng.random(200_000), L._TABLE_Y, 0.5 * rng.random(1000) ** 8])
+    found = np.minimum((y**0.2 * L._V_SCALE).astype(np.intp), L._INTERVALS - 1)
+    searched = np.clip(np.searchsorted(L._TABLE_W, y**0.6, side="right") - 1, 0, L._INTERVALS - 1)
+    assert np.all(np.abs(found - searched) <= 1)
+    np.testing.assert_allclose(L._lower_half_interval(y), L._S_OF_W(y**0.6), rtol=1e-14, atol=1e-300)
+    r = np.cbrt(L._TABLE_S / L._HALF)
+    assert np.bincount(np.minimum((r * L._BUCKETS).astype(np.intp), L._BUCKETS - 1)).max() <= 1
+    s = np.concatenate([L._HALF * rng.random(200_000), L._TABLE_S])
+    np.testing.assert_allclose(L._lower_half_inverse(s), L._W_OF_S(s), rtol=1e-15, atol=0.0)

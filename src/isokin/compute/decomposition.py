@@ -230,20 +230,34 @@ class ProductCurve:
         d = Decomposition(self.alloy, T_K)
         cap, delay = d.caps[self.name], d.delays[self.name]
         X = np.asarray(X, dtype=float)
+        waits = self.name in self.alloy.sequence
+        if np.all(X < 1.0) and np.all((cap == 0.0) | (cap == 1.0)):
+            # the whole parent where it forms: its own fractions, as given (cheap); the
+            # large arrays are written in place
+            t = np.asarray(self.product.time_to_fraction(d.T, X), dtype=float)
+            reachable = cap > 0.0
+            shape = np.broadcast_shapes(t.shape, reachable.shape, np.shape(delay))
+            t = np.array(np.broadcast_to(t, shape)) if t.shape != shape or not t.flags.writeable else t
+            if waits:
+                t += delay
+            np.copyto(t, np.inf, where=~reachable)
+            return t
         reachable = cap > X
-        if np.all((cap == 0.0) | (cap == 1.0)):
-            own = X  # the whole parent where it forms: its own fractions, as given (cheap)
-            return np.where(reachable, delay + self.product.time_to_fraction(d.T, own), np.inf)
-        shape = np.broadcast_shapes(np.shape(reachable), np.shape(delay))
-        out = np.full(shape, np.inf)
         if self.product.separable and np.ndim(getattr(self.product, "exponent", 0.0)) == 0:
-            # t = delay + F(T) S(X / cap): F on the temperatures, S only where the share is reachable
-            factor = np.broadcast_to(self.product.time_factor(d.T), shape)
+            # t = delay + F(T) S(X / cap): S only where the share is reachable, F on the
+            # temperatures' shape, broadcast in the product
+            shape = np.broadcast_shapes(reachable.shape, np.shape(delay))
+            with np.errstate(divide="ignore", invalid="ignore"):
+                share = np.broadcast_to(X / cap, shape)
             where = np.broadcast_to(reachable, shape)
-            share = np.broadcast_to(X, shape)[where] / np.broadcast_to(cap, shape)[where]
-            out[where] = (np.broadcast_to(delay, shape)[where]
-                          + factor[where] * self.product.reaction_term(np.minimum(share, 1.0)))
-            return out
+            S = np.zeros(shape)
+            S[where] = self.product.reaction_term(share[where])
+            with np.errstate(invalid="ignore"):
+                t = self.product.time_factor(d.T) * S
+            if waits:
+                t += delay
+            np.copyto(t, np.inf, where=~where)
+            return t
         with np.errstate(divide="ignore", invalid="ignore"):
             own = np.where(reachable, X / np.where(reachable, cap, 1.0), 0.5)
         return np.where(reachable, delay + self.product.time_to_fraction(d.T, own), np.inf)

@@ -85,7 +85,8 @@ _TABLE_SLOPE = _dw_ds(_TABLE_Y)
 
 class _Cubic:
     """Cubic Hermite interpolation of ys(xs) with given slopes (xs ascending), as per-interval
-    polynomials in the local coordinate, evaluated by Horner's rule."""
+    polynomials in the local coordinate, evaluated by Horner's rule; ``interval`` gives each
+    query's interval where the caller knows it (no search)."""
 
     def __init__(self, xs, ys, slopes):
         h = np.diff(xs)
@@ -94,14 +95,39 @@ class _Cubic:
         self.c2 = 3.0 * (ys[1:] - ys[:-1]) - h * (2.0 * slopes[:-1] + slopes[1:])
         self.c3 = 2.0 * (ys[:-1] - ys[1:]) + h * (slopes[:-1] + slopes[1:])
 
-    def __call__(self, xq):
-        k = np.clip(np.searchsorted(self.xs, xq) - 1, 0, self.xs.size - 2)
-        u = (xq - self.xs[k]) * self.inverse_h[k]
-        return self.c0[k] + u * (self.c1[k] + u * (self.c2[k] + u * self.c3[k]))
+    def __call__(self, xq, interval=None):
+        k = np.clip(np.searchsorted(self.xs, xq) - 1, 0, self.xs.size - 2) if interval is None else interval
+        u = (xq - self.xs.take(k)) * self.inverse_h.take(k)
+        return self.c0.take(k) + u * (self.c1.take(k) + u * (self.c2.take(k) + u * self.c3.take(k)))
 
 
 _S_OF_W = _Cubic(_TABLE_W, _TABLE_S, 1.0 / _TABLE_SLOPE)
 _W_OF_S = _Cubic(_TABLE_S, _TABLE_W, _TABLE_SLOPE)
+_INTERVALS = _TABLE_W.size - 1
+# The nodes are equally spaced in v = y**0.2, so a fraction's interval is floor(v / v_max *
+# intervals), with no search (a search over unsorted queries costs most of the time). For
+# the inverse, buckets equally spaced in (S / S(1/2))**(1/3), where the nodes are close to
+# equally spaced too, each hold at most one node (tested): a bucket's first interval and one
+# comparison give the interval.
+_V_SCALE = _INTERVALS / 0.5**0.2
+_BUCKETS = 4 * _INTERVALS
+_BUCKET_START = np.searchsorted(_TABLE_S, _HALF * (np.arange(_BUCKETS + 1) / _BUCKETS) ** 3, side="right") - 1
+_BUCKET_START = np.clip(_BUCKET_START, 0, _INTERVALS - 1)
+
+
+def _lower_half_interval(y):
+    """S(y) for 0 <= y <= 1/2 from the table, each y's interval found by arithmetic."""
+    v = y**0.2
+    k = np.minimum((v * _V_SCALE).astype(np.intp), _INTERVALS - 1)
+    return _S_OF_W(v * v * v, k)
+
+
+def _lower_half_inverse(s):
+    """w = y**0.6 at which S(y) = s for 0 <= s <= S(1/2), the interval found by buckets."""
+    j = np.minimum((np.cbrt(s / _HALF) * _BUCKETS).astype(np.intp), _BUCKETS - 1)
+    k = _BUCKET_START.take(j)
+    k = np.minimum(k + (s >= _TABLE_S.take(k + 1)), _INTERVALS - 1)
+    return _W_OF_S(s, k)
 
 
 def reaction_integral(X):
@@ -148,7 +174,7 @@ def reaction_integral(X):
         raise ValueError("transformed fraction X must lie in [0, 1]")
     upper = X > 0.5
     y = np.where(upper, 1.0 - X, X)
-    piece = _S_OF_W(y**0.6)
+    piece = _lower_half_interval(y)
     values = np.where(upper, 2.0 * _HALF - piece, piece)
     return values if values.ndim else float(values)
 
@@ -234,6 +260,6 @@ def reaction_integral_inverse(S):
         raise ValueError(f"reaction term S must lie in [0, {2.0 * _HALF:.6f}]")
     upper = S > _HALF
     s = np.where(upper, 2.0 * _HALF - S, S)
-    y = np.clip(_W_OF_S(s), 0.0, None) ** (1.0 / 0.6)
+    y = np.clip(_lower_half_inverse(s), 0.0, None) ** (1.0 / 0.6)
     X = np.where(upper, 1.0 - y, y)
     return X if X.ndim else float(X)
