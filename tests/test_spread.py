@@ -116,3 +116,59 @@ def test_spread_and_compare_as_a_user_runs_them(tmp_path):
 def test_bad_spread_options(args, expected, tmp_path):
     code, _, err, _ = run_main("spread", ROOT / "alloys" / "aisi-4140-crmo.toml", *args, "--out", tmp_path)
     assert code == 2 and expected in err and len(err.strip().splitlines()) == 1
+
+
+def test_passes_of_heats_give_the_one_batch_answer_and_report_progress():
+    # Reference: one batch pass over the same heats (isokin.ttt on the whole batch): each
+    # heat's curves do not depend on which pass solved it.
+    from isokin.compute import spread as S
+    from isokin.compute.ttt import ttt
+
+    calls = []
+    n = S.CHUNK_HEATS * 2 + 7
+    result = spread(AISI_4140, RANGES, samples=n, seed=4, overall=False,
+                    progress=lambda done, total: calls.append((done, total)))
+    assert calls == [(S.CHUNK_HEATS, n), (2 * S.CHUNK_HEATS, n), (n, n)]
+    whole = ttt(rebuild(AISI_4140, result.compositions), temperatures_C=result.nominal.temperatures_C,
+                overall=False)
+    for name in whole.products:
+        np.testing.assert_array_equal(result.times_s[name], whole.times_s[name])
+
+
+class _Terminal:
+    def __init__(self, tty):
+        self.text, self.tty = "", tty
+
+    def write(self, text):
+        self.text += text
+
+    def flush(self):
+        pass
+
+    def isatty(self):
+        return self.tty
+
+
+def test_the_status_line_waits_a_second_and_shows_on_a_terminal_only():
+    # Common practice (no source): progress is for a person at a terminal, and a quick
+    # command should not flicker one.
+    from isokin.cli.status import QUIET_FOR_S, Status
+
+    now = [0.0]
+    for tty in (True, False):
+        stream = _Terminal(tty)
+        status = Status(stream, clock=lambda: now[0])
+        now[0] = 0.5 * QUIET_FOR_S
+        status("solving the heats", 500, 2000)
+        assert stream.text == ""
+        now[0] = 1.5 * QUIET_FOR_S
+        status("solving the heats", 1000, 2000)
+        status("solving the heats", 2000, 2000)
+        status("drawing the figure")
+        status.finish()
+        if tty:
+            lines = stream.text.split("\n")
+            assert lines[0].endswith("isokin: solving the heats: 2000 of 2000")
+            assert lines[1].endswith("isokin: drawing the figure") and lines[2] == ""
+        else:
+            assert stream.text == ""

@@ -22,6 +22,7 @@ from .. import __version__
 from ..constants import kelvin_to_celsius
 from ..errors import InputError
 from ..readout import CAUTION, format_duration
+from .status import status
 
 app = typer.Typer(
     add_completion=False,
@@ -64,6 +65,7 @@ def fail(error):
     """One line on stderr and exit 2; a library key not from a file is named as its option."""
     if isinstance(error, InputError) and not error.source:
         error = error.relocated(keys=OPTION_NAMES)
+    status.finish()
     typer.echo(f"isokin: error: {error}", err=True)
     raise typer.Exit(2)
 
@@ -164,6 +166,7 @@ def _print_noses(result, units):
 
 
 def _warn(result):
+    status.finish()
     for line in result.warnings:
         typer.echo(f"isokin: warning: {line}", err=True)
 
@@ -200,6 +203,14 @@ def _write(writers: dict, out: Path, overwrite: bool):
 def _write_run(files: dict, out: Path, overwrite: bool, figure=None):
     """All files of a run together (see :func:`_write`); ``figure`` = (path, format, make): the
     figure ``make()`` draws with the non-interactive Agg backend, written with the rest, then closed."""
+    try:
+        status("drawing the figure and writing the files" if figure else "writing the files")
+        _write_files(files, out, overwrite, figure)
+    finally:
+        status.finish()
+
+
+def _write_files(files: dict, out: Path, overwrite: bool, figure):
     if figure is None:
         return _write(files, out, overwrite)
     import matplotlib
@@ -287,6 +298,7 @@ def diagram(
                                     "summary": f"{stem}-summary.json"}, overwrite)
     except InputError as exc:
         fail(exc)
+    status("solving the diagram")
     result = ttt(alloy, temperatures_C=kelvin_to_celsius(grid), fractions=fr)
     _warn(result)
 
@@ -491,6 +503,7 @@ def cct(
 
     try:
         alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        status("solving the cooling rates")
         result = cct_of(alloy, _rates(rates), start_C=start_c)
         paths = _output_paths(out, {"figure": f"{stem}-cct.{fmt.value}", "curves": f"{stem}-cct-curves.csv",
                                     "summary": f"{stem}-cct-summary.json"}, overwrite)
@@ -579,6 +592,7 @@ def cool(
             path = [C.newtonian_section(start, medium_c, thickness_mm / 1000.0, htc, shape)]
         else:
             raise InputError(None, "--medium-c", "needs --time-constant-s, or --thickness-mm and --htc")
+        status("following the cooling path")
         result = C.cool(alloy, path)
         isothermal = ttt_of(alloy)
         continuous = C.cct(alloy, start_C=start) if alloy.model == "steel" else None
@@ -675,6 +689,7 @@ def plan(
             options["safety"] = safety
         if worst_case:
             options["worst_case"] = _heats(alloy, range_text, samples, seed)
+        status(f"planning the {route.value} window" + (" over the heats of the range" if worst_case else ""))
         if route == Route.austemper:
             hold_limit = _duration_option(max_hold, "--max-hold")
             options.update({k: v for k, v in (("max_hold_s", hold_limit), ("margin_K", margin_k),
@@ -795,8 +810,10 @@ def fit(
         data, digest = read_measurements(data_file, [p.name for p in alloy.products])
         if bootstrap is not None and not 0 <= bootstrap <= 2000:
             raise InputError(None, "--bootstrap", f"must lie from 0 to 2000, got {bootstrap}")
+        status("fitting")
         result = fitting.fit(alloy, data, free=free or None, loss="linear" if plain else "soft_l1",
-                             bootstrap=bootstrap or 0)
+                             bootstrap=bootstrap or 0,
+                             progress=lambda done, total: status("bootstrap resamples", done, total))
         stem = out.stem
         paths = _output_paths(out.parent if str(out.parent) else Path("."),
                               {"alloy": out.name, "report": f"{stem}-fit.json", "figure": f"{stem}-fit.png"}, overwrite)
@@ -913,7 +930,9 @@ def spread(
         alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
         if alloy.model != "steel":
             raise InputError(None, "ALLOY", "a composition spread is for steels")
-        result = spread_of(alloy, _ranges(alloy, range_text), **_sampling(samples, seed))
+        status("sampling the heats")
+        result = spread_of(alloy, _ranges(alloy, range_text), **_sampling(samples, seed),
+                           progress=lambda done, total: status("solving the heats", done, total))
         paths = _output_paths(out, {"figure": f"{stem}-spread.{fmt.value}", "table": f"{stem}-spread.csv",
                                     "summary": f"{stem}-spread.json"}, overwrite)
     except InputError as exc:
@@ -970,7 +989,10 @@ def compare(
             raise InputError(None, "ALLOY", "give two or more alloy files or --composition heats to compare")
         if len(alloys) > 6:
             raise InputError(None, "ALLOY", f"at most 6 alloys on one figure, got {len(alloys)}")
-        results = [ttt(a) for a in alloys]
+        results = []
+        for i, a in enumerate(alloys):
+            status("solving the diagrams", i + 1, len(alloys))
+            results.append(ttt(a))
         paths = _output_paths(out, {"figure": f"{_stem(stem)}.{fmt.value}", "summary": f"{_stem(stem)}.json"},
                               overwrite)
     except InputError as exc:
@@ -1023,6 +1045,7 @@ def _terminated(signum, frame):
 def main():
     """Entry point: a usage error (unknown option, wrong type, value out of range) ends with one line too."""
     signal.signal(signal.SIGTERM, _terminated)
+    status.restart()
     try:
         code = app(standalone_mode=False)
     except KeyboardInterrupt:

@@ -65,7 +65,8 @@ class Decomposition:
 
     ``caps[name]``: the share of the parent each product reaches alone at completion (its
     equilibrium share, 0 where it cannot form); ``delays[name]``: when it may begin (0 unless
-    it waits for another). Both are computed on first use, product by product.
+    it waits for another); ``factors[name]``: F(T) of a separable product. All are computed
+    on first use, product by product.
 
     Parameters
     ----------
@@ -81,6 +82,7 @@ class Decomposition:
         self._by_name = {p.name: p for p in alloy.products}
         self.caps = _PerProduct(self._by_name, self._cap)
         self.delays = _PerProduct(self._by_name, self._delay)
+        self.factors = _PerProduct(self._by_name, lambda name: self._by_name[name].time_factor(self.T))
 
     def _cap(self, name):
         p = self._by_name[name]
@@ -95,7 +97,9 @@ class Decomposition:
         waits_for = self.alloy.sequence.get(name)
         if waits_for is None:
             return np.zeros(np.shape(self.caps[name]))
-        t_wait = self._by_name[waits_for].time_to_fraction(self.T, WAIT_FRACTION)
+        first = self._by_name[waits_for]
+        t_wait = (self.factors[waits_for] * first.reaction_term(WAIT_FRACTION) if first.separable
+                  else first.time_to_fraction(self.T, WAIT_FRACTION))
         return np.where(self.caps[waits_for] > 0.0, t_wait, 0.0)
 
     @property
@@ -162,7 +166,7 @@ class Decomposition:
         if all(p.separable and np.ndim(getattr(p, "exponent", 0.0)) == 0 for p in products):
             parts = []
             for p in products:
-                factor = np.broadcast_to(p.time_factor(self.T), shape).ravel()
+                factor = np.broadcast_to(self.factors[p.name], shape).ravel()
                 cap = np.broadcast_to(self.caps[p.name], shape).ravel()
                 start = np.broadcast_to(self.delays[p.name], shape).ravel()
                 parts.append((p, factor, cap, start, float(p.reaction_term(1.0))))
@@ -212,22 +216,37 @@ class Decomposition:
         return {name: value * scale for name, value in raw.items()}
 
 
+class SharedDecomposition:
+    """The decomposition at the temperatures last asked for, shared by the curves of one
+    alloy: where the diagram solver asks them all at the same query (the same array), its
+    caps, delays and time factors are computed once."""
+
+    def __init__(self, alloy):
+        self.alloy, self._T, self._last = alloy, None, None
+
+    def at(self, T_K) -> Decomposition:
+        if T_K is not self._T:  # the array is held, so its identity is not reused
+            self._T, self._last = T_K, Decomposition(self.alloy, T_K)
+        return self._last
+
+
 class ProductCurve:
     """One product's curve within the decomposition: the time until it reaches a share X of
     the parent by itself, after its turn in the sequence (``delay + t(X / cap)``; never where
     its equilibrium share ``cap`` is X or less). With no sequence and no equilibrium share
     it is the product's own curve, unchanged."""
 
-    def __init__(self, alloy, product):
+    def __init__(self, alloy, product, shared=None):
         self.alloy, self.product = alloy, product
         self.name, self.model, self.batch_shape = product.name, product.model, product.batch_shape
+        self._shared = SharedDecomposition(alloy) if shared is None else shared
 
     @property
     def upper_K(self):
         return self.product.upper_K
 
     def time_to_fraction(self, T_K, X):
-        d = Decomposition(self.alloy, T_K)
+        d = self._shared.at(T_K)
         cap, delay = d.caps[self.name], d.delays[self.name]
         X = np.asarray(X, dtype=float)
         waits = self.name in self.alloy.sequence
@@ -253,7 +272,7 @@ class ProductCurve:
             S = np.zeros(shape)
             S[where] = self.product.reaction_term(share[where])
             with np.errstate(invalid="ignore"):
-                t = self.product.time_factor(d.T) * S
+                t = d.factors[self.name] * S
             if waits:
                 t += delay
             np.copyto(t, np.inf, where=~where)
@@ -268,10 +287,11 @@ class OverallCurve:
     a share of what can transform at each temperature. It answers ``time_to_fraction`` like a
     product, so the diagram solver and its nose refinement treat it as one."""
 
-    def __init__(self, alloy):
+    def __init__(self, alloy, shared=None):
         from ..results import OVERALL
 
         self.alloy = alloy
+        self._shared = SharedDecomposition(alloy) if shared is None else shared
         self.name = OVERALL
         self.model = (f"decomposition of {alloy.parent}: sequence {_sequence_text(alloy)}; concurrent products "
                       "share the parent by the extended-volume rule; fraction = share of what can transform at T")
@@ -282,7 +302,7 @@ class OverallCurve:
         return np.max(np.stack([np.broadcast_to(p.upper_K, self.batch_shape) for p in self.alloy.products]), axis=0)
 
     def time_to_fraction(self, T_K, X):
-        return Decomposition(self.alloy, T_K).time_to_total(X)
+        return self._shared.at(T_K).time_to_total(X)
 
 
 def _sequence_text(alloy):

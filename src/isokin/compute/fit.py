@@ -165,7 +165,7 @@ def _to_values(free, theta):
     return {n: (np.exp(v) if n.partition(".")[2] in LOG_PARAMETERS else v) for n, v in zip(free, theta)}
 
 
-def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=0):
+def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=0, progress=None):
     """Fit the free parameters to the measurements.
 
     Parameters
@@ -179,6 +179,8 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
         least_squares loss: "soft_l1" (default, robust) or "linear" (plain least squares).
     bootstrap : int
         Resamples of the points for percentile intervals as well (0: none).
+    progress : callable, optional
+        ``progress(done, total)`` after each resample.
 
     Returns
     -------
@@ -238,13 +240,15 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
     if bootstrap:
         rng = np.random.default_rng(seed)
         draws = []
-        for _ in range(int(bootstrap)):
+        for done in range(1, int(bootstrap) + 1):
             pick = rng.integers(0, m, m)
             # from the fit's own solution, to the precision an interval needs (not 1e-8)
             again = least_squares(lambda th: residuals(th, pick), theta, loss=loss, f_scale=ROBUST_SCALE,
                                   x_scale="jac", method="trf", max_nfev=30, bounds=bounds, ftol=1e-5, xtol=1e-5,
                                   gtol=1e-5)
             draws.append(again.x)
+            if progress is not None:
+                progress(done, int(bootstrap))
         draws = np.array(draws)
         lo, hi = np.percentile(draws, [50 * (1 - CONFIDENCE), 50 * (1 + CONFIDENCE)], axis=0)
         boot = {n: (_to_values([n], [lo[i]])[n], _to_values([n], [hi[i]])[n]) for i, n in enumerate(free)}

@@ -21,6 +21,9 @@ MAX_SAMPLES = 20_000
 #: Heats a worst-case hold plan samples unless told otherwise: enough to find the corners
 #: of a grade's range at a small part of a full spread's cost (our choice).
 WORST_CASE_SAMPLES = 64
+#: Heats solved per pass of the batch solver in a spread: a progress report after each
+#: pass, and the memory of the largest runs bounded.
+CHUNK_HEATS = 500
 
 
 def check_ranges(composition: dict, ranges: dict) -> dict:
@@ -80,7 +83,7 @@ def sampled_heats(alloy, ranges: dict, samples=WORST_CASE_SAMPLES, seed=0):
     return rebuild(alloy, sample_compositions(composition, ranges, samples, seed))
 
 
-def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, build=None):
+def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, build=None, progress=None):
     """The curves of every sampled composition, their quantiles and envelope, the noses' and
     Ms's spread and the elements that drive the spread.
 
@@ -93,6 +96,8 @@ def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, b
     build : callable, optional
         ``build(mass_percent) -> Alloy`` for a batch of compositions; default the steel's own
         options (grain size, austenitizing temperature, Ms method, kinetics).
+    progress : callable, optional
+        ``progress(done, total)`` after each pass of :data:`CHUNK_HEATS` heats.
 
     Returns
     -------
@@ -112,30 +117,49 @@ def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, b
     nominal = ttt(nominal_alloy, overall=overall)
     grid_C = nominal.temperatures_C
     mass = sample_compositions(composition, ranges, samples, seed)
-    batch = build(mass)
-    result = ttt(batch, temperatures_C=grid_C, overall=overall)
+    names, whole, times, noses, ms = _solve_heats(build, mass, grid_C, overall, progress)
     quantiles, earliest, latest = {}, {}, {}
-    for name in result.products:
-        t = result.times_s[name]
+    for name in names:
+        t = times[name]
         quantiles[name] = np.quantile(t, QUANTILES, axis=0, method="inverted_cdf")
         earliest[name] = np.min(t, axis=0)
         latest[name] = np.max(t, axis=0)
-    noses = {name: {"temperature_K": np.quantile(n.temperature_K, QUANTILES, axis=0, method="inverted_cdf"),
-                    "time_s": np.quantile(n.time_s, QUANTILES, axis=0, method="inverted_cdf")} for name, n in result.noses.items()}
-    ms = np.asarray(batch.critical_K["Ms"])
+    nose_quantiles = {name: {"temperature_K": np.quantile(n.temperature_K, QUANTILES, axis=0, method="inverted_cdf"),
+                             "time_s": np.quantile(n.time_s, QUANTILES, axis=0, method="inverted_cdf")}
+                      for name, n in noses.items()}
     return SpreadResult(
         alloy=alloy.name, samples=int(samples), seed=int(seed), ranges=ranges, nominal=nominal,
         quantile_levels=np.asarray(QUANTILES), quantiles_s=quantiles, earliest_s=earliest, latest_s=latest,
-        nose_quantiles=noses, ms_range_K=(float(np.min(ms)), float(np.max(ms))),
-        sensitivity=_sensitivity(mass, ranges, result), compositions=mass, times_s=dict(result.times_s))
+        nose_quantiles=nose_quantiles, ms_range_K=(float(np.min(ms)), float(np.max(ms))),
+        sensitivity=_sensitivity(mass, ranges, noses, whole), compositions=mass, times_s=times)
 
 
-def _sensitivity(mass, ranges, result):
+def _solve_heats(build, mass, grid_C, overall, progress):
+    """Every heat's curves on the grid, :data:`CHUNK_HEATS` heats per batch pass: (curve
+    names, the whole decomposition's name or None, times and noses by curve, Ms of each heat)."""
+    from ..results import Noses
+
+    n = len(next(iter(mass.values())))
+    parts, ms = [], []
+    for start in range(0, n, CHUNK_HEATS):
+        batch = build({k: v[start:start + CHUNK_HEATS] for k, v in mass.items()})
+        parts.append(ttt(batch, temperatures_C=grid_C, overall=overall))
+        ms.append(np.broadcast_to(np.asarray(batch.critical_K["Ms"], dtype=float), batch.batch_shape))
+        if progress is not None:
+            progress(min(start + CHUNK_HEATS, n), n)
+    names = parts[0].products
+    times = {name: np.concatenate([p.times_s[name] for p in parts]) for name in names}
+    noses = {name: Noses(*(np.concatenate([getattr(p.noses[name], field) for p in parts])
+                           for field in ("temperature_K", "time_s", "inside"))) for name in names}
+    return names, parts[0].overall, times, noses, np.concatenate(ms)
+
+
+def _sensitivity(mass, ranges, noses, whole):
     """Elements ranked by how much they move ln(time) of the earliest start (the whole
     decomposition's, else the fastest product's 1 % nose): standardized regression
     coefficients over the samples, in ln s per range-width."""
-    name = result.overall or min(result.products, key=lambda n: float(np.min(result.noses[n].time_s)))
-    y = np.log(result.noses[name].time_s[:, 0])
+    name = whole or min(noses, key=lambda n: float(np.min(noses[n].time_s)))
+    y = np.log(noses[name].time_s[:, 0])
     names = [e for e in ranges if np.ptp(mass[e]) > 0]
     ok = np.isfinite(y)
     if not names or ok.sum() <= len(names) + 1:

@@ -12,7 +12,7 @@ import numpy as np
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..results import OVERALL, Noses, TTTResult
-from .decomposition import OverallCurve, ProductCurve, region_labels
+from .decomposition import OverallCurve, ProductCurve, SharedDecomposition, region_labels
 from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
 
 #: A nose faster than this (s) means an input slip, not a transformation: said in a warning.
@@ -21,26 +21,38 @@ IMPLAUSIBLY_FAST_S = 1.0e-9
 NOSE_TOLERANCE_K = 0.01
 #: Zoomed parabolas per nose after the one on the grid.
 _NOSE_ZOOMS = 1
-
-
-#: Values a product is asked for at once: a large batch is solved a few temperatures at a
+#: Values a curve is asked for at once: a large batch is solved a few temperatures at a
 #: time, so its temporaries stay in the processor's cache instead of new memory pages.
 CHUNK_VALUES = 1 << 18
 
 
-def product_times(product, temperatures_K, fractions):
-    """Seconds to each fraction on the grid, shape (batch..., F, N); ``inf`` where none forms."""
-    b = len(product.batch_shape)
+def curve_times(curves, temperatures_K, fractions):
+    """Seconds to each fraction on the grid, {name: (batch..., F, N)}; ``inf`` where none forms.
+
+    A large batch is solved a few temperatures at a time (:data:`CHUNK_VALUES`), every curve
+    on one block before the next: the curves of one decomposition share its caps and delays
+    there, and the temporaries stay in the processor's cache.
+    """
     T = np.asarray(temperatures_K, dtype=float).reshape(-1)
-    X = np.asarray(fractions, dtype=float).reshape((1,) * b + (-1, 1))
-    out = np.empty(product.batch_shape + (X.shape[-2], T.size))
-    step = max(1, CHUNK_VALUES // max(out[..., 0].size, 1))
+    F = np.size(fractions)
+    outs = {c.name: np.empty(c.batch_shape + (F, T.size)) for c in curves}
+    step = max(1, CHUNK_VALUES // max(max(out[..., 0].size for out in outs.values()), 1))
+    queries = {}
     for start in range(0, T.size, step):
-        part = T[start:start + step].reshape((1,) * b + (1, -1))
-        t = out[..., start:start + step]
-        t[...] = product.time_to_fraction(part, X)
-        np.copyto(t, np.inf, where=~(t > 0))  # guards against a model returning 0 or NaN where nothing forms
-    return out
+        block = slice(start, start + step)
+        for c in curves:
+            b = len(c.batch_shape)
+            if b not in queries or queries[b][0] != start:  # one query object per block: curves share it
+                queries[b] = (start, T[block].reshape((1,) * b + (1, -1)),
+                              np.asarray(fractions, dtype=float).reshape((1,) * b + (-1, 1)))
+            _, part, X = queries[b]
+            out = outs[c.name][..., block]
+            t = np.asarray(c.time_to_fraction(part, X), dtype=float)
+            if not t.flags.writeable or t.shape != out.shape:
+                t = np.array(np.broadcast_to(t, out.shape))
+            np.copyto(t, np.inf, where=~(t > 0))  # guards against a model returning 0 or NaN where nothing forms
+            out[...] = t
+    return outs
 
 
 def refine_noses(product, temperatures_K, fractions, times_s) -> Noses:
@@ -111,11 +123,8 @@ def solve_ttt(products, temperatures_K, fractions=DEFAULT_FRACTIONS):
     """Times and noses of each product on a grid: (times dict, noses dict) by product name."""
     grid = np.asarray(temperatures_K, dtype=float)
     fr = np.asarray(fractions, dtype=float)
-    times, noses = {}, {}
-    for product in products:
-        t = product_times(product, grid, fr)
-        times[product.name] = t
-        noses[product.name] = refine_noses(product, grid, fr, t)
+    times = curve_times(products, grid, fr)
+    noses = {p.name: refine_noses(p, grid, fr, times[p.name]) for p in products}
     return times, noses
 
 
@@ -163,17 +172,18 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         if grid.size < 3 or not np.all(np.isfinite(grid)) or grid[0] <= 0 or np.any(np.diff(grid) <= 0):
             raise InputError(None, "temperatures_C", "give three or more distinct finite temperatures above -273.15 °C")
     within = decomposition and (alloy.sequence or any(hasattr(p, "equilibrium_fraction") for p in alloy.products))
-    curves = [ProductCurve(alloy, p) if within else p for p in alloy.products]
+    shared = SharedDecomposition(alloy)
+    curves = [ProductCurve(alloy, p, shared) if within else p for p in alloy.products]
+    with_whole = overall and decomposition and len(alloy.products) > 1
+    if with_whole:
+        whole = OverallCurve(alloy, shared)
+        curves.append(whole)
     times, noses = solve_ttt(curves, grid, fr)
     names = tuple(p.name for p in alloy.products)
     models = {p.name: p.model for p in alloy.products}
     uppers = {p.name: p.upper_K for p in alloy.products}
     regions = ()
-    if overall and decomposition and len(alloy.products) > 1:
-        whole = OverallCurve(alloy)
-        overall_times, overall_noses = solve_ttt([whole], grid, fr)
-        times.update(overall_times)
-        noses.update(overall_noses)
+    if with_whole:
         names += (OVERALL,)
         models[OVERALL] = whole.model
         uppers[OVERALL] = whole.upper_K
