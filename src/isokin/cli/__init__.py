@@ -165,10 +165,11 @@ def _print_noses(result, units):
             typer.echo(f"{name:<14}  does not form in the temperature range asked for")
 
 
-def _warn(result):
+def _warn(result, who=None):
+    """The result's warnings on stderr; ``who`` names the alloy where several are run."""
     status.finish()
     for line in result.warnings:
-        typer.echo(f"isokin: warning: {line}", err=True)
+        typer.echo(f"isokin: warning: {who + ': ' if who else ''}{line}", err=True)
 
 
 def _output_paths(out: Path, names: dict, overwrite: bool):
@@ -998,18 +999,21 @@ def compare(
     except InputError as exc:
         fail(exc)
     for r in results:
-        _warn(r)
+        _warn(r, r.alloy)
     from ..io.export import compare_summary, write_json
     from ..plot.cct import report_figure
     from ..plot.spread import plot_compare
 
     _write_run({paths["summary"]: lambda p: write_json(compare_summary(results), p)}, out, overwrite,
                (paths["figure"], fmt.value, lambda: report_figure(plot_compare, results, "", units=units.value)))
-    lines = sorted({k for r in results for k in r.critical_K})
-    typer.echo(f"  {'':<34}" + "".join(f"{r.alloy[:22]:>24}" for r in results))
+    known = {k for r in results for k in r.critical_K}
+    lines = [k for k in _LINES_TOP_DOWN if k in known] + sorted(known - set(_LINES_TOP_DOWN))
+    for i, r in enumerate(results, start=1):
+        typer.echo(f"  [{i}] {r.alloy}")
+    typer.echo(f"  {'':<24}" + "".join(f"{f'[{i}]':>13}" for i in range(1, len(results) + 1)))
     for line in lines:
-        typer.echo(f"  {line:<34}" + "".join(
-            f"{_in_units(kelvin_to_celsius(float(r.critical_K[line])), units) if line in r.critical_K else '-':>24}"
+        typer.echo(f"  {line:<24}" + "".join(
+            f"{_in_units(kelvin_to_celsius(float(r.critical_K[line])), units) if line in r.critical_K else '-':>13}"
             for r in results))
     for label in ("start (1 %) nose", "start (1 %) nose time"):
         cells = []
@@ -1018,11 +1022,15 @@ def compare(
             ok = bool(n.forms[0])
             value = (_in_units(float(n.temperature_C[0]), units) if "time" not in label else
                      format_duration(float(n.time_s[0]))) if ok else "-"
-            cells.append(f"{value:>24}")
-        typer.echo(f"  {label:<34}" + "".join(cells))
+            cells.append(f"{value:>13}")
+        typer.echo(f"  {label:<24}" + "".join(cells))
     for p in paths.values():
         typer.echo(f"wrote {p}")
     typer.echo(CAUTION)
+
+
+#: The critical lines from the top of a steel's diagram down, as they are read on it.
+_LINES_TOP_DOWN = ("Ae3", "Ae1", "Bs", "Ms", "M50", "M90")
 
 
 def ttt_of(alloy):

@@ -51,12 +51,13 @@ def plot_compare(results, ax=None, units="C"):
         name = result.overall or result.products[0]
         t = np.where(result.practical(name)[0], result.times_s[name][0], np.nan)
         y = to_units(result.temperatures_C, units)
-        ax.plot(t, y, color=colour, linestyle=style, linewidth=2.0, label=literal(result.alloy))
+        label = literal(result.alloy)
         if "Ms" in result.critical_K:
+            # Ms goes into the legend: close Ms lines of similar heats would overwrite their labels
             ms = float(to_units(kelvin_to_celsius(result.critical_K["Ms"]), units))
             ax.axhline(ms, color=colour, linestyle=style, linewidth=0.9, alpha=0.8)
-            ax.text(0.995, ms, f"Ms {ms:.0f} °{units}", transform=ax.get_yaxis_transform(), ha="right", va="bottom",
-                    fontsize=7, color=colour)
+            label += f" (Ms {ms:.0f} °{units}, thin line)"
+        ax.plot(t, y, color=colour, linestyle=style, linewidth=2.0, label=label)
     ax.set_xscale("log")
     ax.set_xlabel("hold time, s (log scale)")
     ax.set_ylabel(f"hold temperature, °{units}")

@@ -243,7 +243,7 @@ def _mark_noses(ax, result: TTTResult, x_label, line_C, units):
         _, T, t = min(noses, key=lambda n: n[2])
         ax.annotate(
             text, (t, T), xytext=(x_label, y), fontsize=7, color=colour, linespacing=1.15,
-            ha="right", va="center",
+            ha="right", va="center", zorder=7,  # above every curve, so that the text stays legible
             bbox={"boxstyle": "square,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85},
             arrowprops={"arrowstyle": "-", "color": colour, "linewidth": 0.6, "shrinkA": 0, "shrinkB": 4},
         )
