@@ -27,6 +27,12 @@ def test_the_envelope_contains_every_heat_and_a_zero_range_collapses_onto_the_no
         assert np.all(result.earliest_s[name] <= times) and np.all(times <= result.latest_s[name])
         q = result.quantiles_s[name]
         assert np.all(result.earliest_s[name] <= q[0]) and np.all(q[-1] <= result.latest_s[name])
+    # the worst case is the first start of any heat and any curve, where some heat reaches it
+    every_start = np.stack([t[:, 0] for t in result.times_s.values()])  # (curve, heat, T)
+    np.testing.assert_array_equal(result.earliest_start_s, every_start.min(axis=(0, 1)))
+    T_first, t_first = result.earliest_start()
+    assert t_first == every_start.min() and np.isclose(T_first, result.nominal.temperatures_K[
+        np.unravel_index(np.argmin(every_start), every_start.shape)[2]])
     nominal = {k: float(v) for k, v in AISI_4140.inputs["composition"].items()}
     flat = {e: ("range", nominal[e], nominal[e]) for e in RANGES}
     collapsed = spread(AISI_4140, flat, samples=20, seed=0)

@@ -414,6 +414,20 @@ class SpreadResult:
     compositions: dict
     times_s: dict
 
+    @property
+    def earliest_start_s(self) -> np.ndarray:
+        """The worst case for holds and quenches, (N,): at each temperature the earliest time
+        over the heats at which any curve reaches its first fraction (the whole decomposition
+        where there is one)."""
+        return np.min(np.stack([t[0] for t in self.earliest_s.values()]), axis=0)
+
+    def earliest_start(self) -> tuple:
+        """(temperature_K, time_s) of the earliest start over the heats, on the grid; time
+        ``inf`` where nothing starts."""
+        t = self.earliest_start_s
+        i = int(np.argmin(t))
+        return float(self.nominal.temperatures_K[i]), float(t[i])
+
     def curve_columns(self) -> dict:
         """Quantile table: product, fraction, temperature_C, nominal, q05, q50, q95, earliest, latest (s)."""
         rows = {"product": [], "fraction": [], "temperature_C": [], "nominal_time_s": [], "earliest_time_s": [],

@@ -958,6 +958,10 @@ def spread(
                            f"  {format_duration(t_lo):>10} to {format_duration(t_hi):<10}")
     ms_lo, ms_hi = (kelvin_to_celsius(t) for t in result.ms_range_K)
     typer.echo(f"  Ms over the range: {_in_units(ms_lo, units)} to {_in_units(ms_hi, units)}")
+    T_first, t_first = result.earliest_start()
+    if math.isfinite(t_first):
+        typer.echo(f"  earliest start over the range (the worst case for a hold or a quench): "
+                   f"{format_duration(t_first)} at {_in_units(kelvin_to_celsius(T_first), units)}")
     if result.sensitivity:
         typer.echo("  what moves the earliest start most (ln of its time across each element's range): " + ", ".join(
             f"{s['element']} {s['ln_time_per_range']:+.2f}" for s in result.sensitivity))

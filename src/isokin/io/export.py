@@ -417,6 +417,7 @@ def fit_report(result, data_name: str, digest: str, date: str) -> dict:
 
 def spread_summary(result) -> dict:
     """Noses and Ms over the composition range, the drivers of the spread, the sampling."""
+    T_first, t_first = result.earliest_start()
     noses = {}
     for curve, q in result.nose_quantiles.items():
         noses[curve] = {f"{x:g}": {"temperature_C": {f"q{int(round(l * 100)):02d}": _plain(float(kelvin_to_celsius(
@@ -432,6 +433,7 @@ def spread_summary(result) -> dict:
         "design": "Latin hypercube (scipy.stats.qmc): uniform over [min, max], normal for nominal +- one sigma",
         "ranges": {e: {"kind": k, "a": a, "b": b} for e, (k, a, b) in result.ranges.items()},
         "ms_range_C": [round(float(kelvin_to_celsius(t)), 3) for t in result.ms_range_K],
+        "earliest_start": {"temperature_C": round(float(kelvin_to_celsius(T_first)), 3), "time_s": _plain(t_first)},
         "noses": noses,
         "sensitivity": list(result.sensitivity),
         "meaning": ("quantiles over the sampled heats; the earliest 1 % curve is the worst case for holds and "

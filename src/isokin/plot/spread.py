@@ -21,8 +21,7 @@ def plot_spread(result, ax=None, units="C"):
         q = np.where(np.isfinite(result.quantiles_s[name]), result.quantiles_s[name], np.nan)
         for k in range(q.shape[1]):
             ax.fill_betweenx(y, q[0, k], q[-1, k], color=colour, alpha=0.12, linewidth=0, zorder=1)
-    worst = result.nominal.overall or result.nominal.products[0]
-    earliest = np.where(np.isfinite(result.earliest_s[worst][0]), result.earliest_s[worst][0], np.nan)
+    earliest = np.where(np.isfinite(result.earliest_start_s), result.earliest_start_s, np.nan)
     ax.plot(earliest, y, color="#c0392b", linewidth=2.6, zorder=6, label="earliest start over the range")
     lo, hi = (float(to_units(kelvin_to_celsius(t), units)) for t in result.ms_range_K)
     ax.axhspan(lo, hi, color="#999999", alpha=0.2, zorder=0, linewidth=0)
