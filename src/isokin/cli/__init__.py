@@ -922,7 +922,7 @@ def spread(
     """How the composition range spreads the curves: bands, the worst-case start, Ms range, drivers.
 
     Samples heats over the range ([composition_range] of the file or --range), computes all
-    their curves in one pass, and writes <stem>-spread.png, <stem>-spread.csv (quantiles and
+    their curves with the batch solver, and writes <stem>-spread.png, <stem>-spread.csv (quantiles and
     envelope per product, fraction and temperature) and <stem>-spread.json.
     """
     from ..compute.spread import spread as spread_of

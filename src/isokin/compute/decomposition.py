@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..products.base import as_query, batch_leading
+from ..products.base import as_query, batch_leading, writeable
 
 #: A product that waits for another begins when that one has reached this share of its own
 #: completion (the full completion takes infinitely long in JMAK).
@@ -253,10 +253,9 @@ class ProductCurve:
         if np.all(X < 1.0) and np.all((cap == 0.0) | (cap == 1.0)):
             # the whole parent where it forms: its own fractions, as given (cheap); the
             # large arrays are written in place
-            t = np.asarray(self.product.time_to_fraction(d.T, X), dtype=float)
+            t = self.product.time_to_fraction(d.T, X)
             reachable = cap > 0.0
-            shape = np.broadcast_shapes(t.shape, reachable.shape, np.shape(delay))
-            t = np.array(np.broadcast_to(t, shape)) if t.shape != shape or not t.flags.writeable else t
+            t = writeable(t, np.broadcast_shapes(np.shape(t), reachable.shape, np.shape(delay)))
             if waits:
                 t += delay
             np.copyto(t, np.inf, where=~reachable)

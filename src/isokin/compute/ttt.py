@@ -11,6 +11,7 @@ import numpy as np
 
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
+from ..products.base import writeable
 from ..results import OVERALL, Noses, TTTResult
 from .decomposition import OverallCurve, ProductCurve, SharedDecomposition, region_labels
 from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
@@ -34,22 +35,18 @@ def curve_times(curves, temperatures_K, fractions):
     there, and the temporaries stay in the processor's cache.
     """
     T = np.asarray(temperatures_K, dtype=float).reshape(-1)
-    F = np.size(fractions)
-    outs = {c.name: np.empty(c.batch_shape + (F, T.size)) for c in curves}
+    fr = np.asarray(fractions, dtype=float).reshape(-1)
+    outs = {c.name: np.empty(c.batch_shape + (fr.size, T.size)) for c in curves}
     step = max(1, CHUNK_VALUES // max(max(out[..., 0].size for out in outs.values()), 1))
-    queries = {}
+    dims = {len(c.batch_shape) for c in curves}
+    X = {b: fr.reshape((1,) * b + (-1, 1)) for b in dims}
     for start in range(0, T.size, step):
         block = slice(start, start + step)
+        part = {b: T[block].reshape((1,) * b + (1, -1)) for b in dims}  # one query per block: curves share it
         for c in curves:
             b = len(c.batch_shape)
-            if b not in queries or queries[b][0] != start:  # one query object per block: curves share it
-                queries[b] = (start, T[block].reshape((1,) * b + (1, -1)),
-                              np.asarray(fractions, dtype=float).reshape((1,) * b + (-1, 1)))
-            _, part, X = queries[b]
             out = outs[c.name][..., block]
-            t = np.asarray(c.time_to_fraction(part, X), dtype=float)
-            if not t.flags.writeable or t.shape != out.shape:
-                t = np.array(np.broadcast_to(t, out.shape))
+            t = writeable(c.time_to_fraction(part[b], X[b]), out.shape)
             np.copyto(t, np.inf, where=~(t > 0))  # guards against a model returning 0 or NaN where nothing forms
             out[...] = t
     return outs

@@ -49,6 +49,19 @@ def plain(value):
     return float(value) if np.ndim(value) == 0 else np.asarray(value)
 
 
+def writeable(values, shape):
+    """``values`` as a float array of exactly ``shape`` that may be written in place: itself
+    where it already is one (a fresh result), else a broadcast copy.
+
+    >>> writeable(np.float64(2.0), (2, 3)).shape
+    (2, 3)
+    """
+    values = np.asarray(values, dtype=float)
+    if values.shape == tuple(shape) and values.flags.writeable:
+        return values
+    return np.array(np.broadcast_to(values, shape))
+
+
 def as_query(*queries):
     """The query arrays as floats of one number of dimensions (unit axes prepended), and it.
 
