@@ -12,32 +12,18 @@ promise; this shows it at scale.
 from __future__ import annotations
 
 import collections
-import io
 import re
 import sys
 import time
 import traceback
-import warnings
-from contextlib import redirect_stderr, redirect_stdout
+from pathlib import Path
 
 import numpy as np
 
-from isokin.cli import main
 from isokin.relations.composition import ELEMENTS
 
-
-def run(args):
-    out, err = io.StringIO(), io.StringIO()
-    sys.argv = ["isokin", *args]
-    with redirect_stdout(out), redirect_stderr(err), warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always")
-        try:
-            main()
-            code = 0
-        except SystemExit as exc:
-            code = exc.code
-    python_warnings = [w for w in caught if not issubclass(w.category, DeprecationWarning)]
-    return code, err.getvalue(), python_warnings
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "tests"))
+from test_hardening import run_main  # noqa: E402  the entry point in-process, as the tests drive it
 
 
 def main_script(n=2000):
@@ -52,7 +38,7 @@ def main_script(n=2000):
         analysis = {"C": rng.uniform(0.0, 3.0), **{e: rng.uniform(0.0, 30.0) for e in picked}}
         text = ",".join(f"{k}={v:.4g}" for k, v in analysis.items())
         try:
-            code, err, python_warnings = run(["check", "--composition", text])
+            code, _, err, python_warnings = run_main("check", "--composition", text)
         except Exception:  # the one thing that must never happen
             tracebacks.append((text, traceback.format_exc(limit=3)))
             continue

@@ -51,6 +51,11 @@ def run_main(*args):
     return code, out.getvalue(), err.getvalue(), caught
 
 
+def refused(code, err, text=""):
+    """A refusal as the CLI promises it: exit 2 and one line on stderr that says ``text``."""
+    return code == 2 and text in err and len(err.strip().splitlines()) == 1
+
+
 def _reject_constant(name):
     raise AssertionError(f"non-finite number {name} in a written file")
 
@@ -212,7 +217,7 @@ def test_every_element_a_correlation_uses_has_a_range():
 def test_numbers_are_plain_decimals(option, value, tmp_path):
     code, _, err, _ = run_main("diagram", ROOT / "alloys" / "brackwater-ba42-precipitation.toml", "--out", tmp_path,
                                option, value)
-    assert code == 2 and option in err and len(err.strip().splitlines()) == 1
+    assert refused(code, err, option)
     code, _, err, _ = run_main("check", "--composition", "C=0_4")
     assert code == 2 and "Element=mass%" in err
 
@@ -251,7 +256,7 @@ def test_names_are_plain_text_on_the_figure_and_limited(tmp_path):
     assert code == 2 and "at most 120 characters" in err
     (tmp_path / "c.toml").write_text(GOOD.replace('name = "precipitate"', 'name = "two\\nlines"'))
     code, _, err, _ = run_main("check", tmp_path / "c.toml")
-    assert code == 2 and len(err.strip().splitlines()) == 1 and "one line" in err
+    assert refused(code, err, "one line")
 
 
 def test_files_must_be_regular_local_and_small(tmp_path):
