@@ -128,7 +128,9 @@ def test_load_alloy_and_kinetics_override_reach_the_record(tmp_path):
     assert changed.provenance["kinetics"]["ferrite"]["activation_energy_cal_mol"] == pytest.approx(27500.0)
     assert default.provenance["kinetics"]["ferrite"]["activation_energy_cal_mol"] == pytest.approx(23500.0)
     assert changed.provenance["kinetics_overridden"] == ["ferrite"]
-    assert "in doubt" in changed.provenance["kinetics_note"]
+    assert "from memory" in changed.provenance["kinetics_note"]
+    assert changed.provenance["kinetics_model"] == "kirkaldy_venugopalan_1984"
+    assert "in doubt" in isokin.steel({"C": 0.4, "Mn": 0.8}, kinetics_model="li_1998").provenance["kinetics_note"]
     # A higher activation energy means slower ferrite at every temperature.
     ok = np.isfinite(default.times_s["ferrite"])
     assert np.all(changed.times_s["ferrite"][ok] > default.times_s["ferrite"][ok])
@@ -140,16 +142,16 @@ def test_load_alloy_and_kinetics_override_reach_the_record(tmp_path):
         isokin.load_alloy(bad)
 
 
-def test_default_ms_method_follows_carbon_and_the_summary_says_which():
+def test_default_methods_are_the_ones_the_data_chose_and_the_summary_says_which():
     from isokin.io.export import summary
 
-    low = isokin.ttt(isokin.steel({"C": 0.4, "Mn": 0.8}), points=40)
     high = isokin.ttt(isokin.steel({"C": 0.79, "Mn": 0.76}), points=40)
     forced = isokin.ttt(isokin.steel({"C": 0.79, "Mn": 0.76}, ms_method="andrews_1965"), points=40)
-    assert summary(low)["model_choices"]["ms_method"] == "andrews_1965"
-    assert summary(high)["model_choices"]["ms_method"] == "andrews_1965_product"
-    assert "product form" in summary(high)["critical_temperatures"]["Ms"]["method"]
-    assert forced.critical_K["Ms"] < high.critical_K["Ms"] - 50.0
+    choices = summary(high)["model_choices"]
+    assert choices["ms_method"] == "van_bohemen_2012" and choices["bs_method"] == "van_bohemen_2012"
+    assert "van Bohemen" in summary(high)["critical_temperatures"]["Ms"]["method"]
+    # Andrews' linear form runs low past 0.6 % C (the measured data show it: benchmarks/validate.py)
+    assert forced.critical_K["Ms"] < high.critical_K["Ms"] - 30.0
     json.dumps(summary(high))
 
 

@@ -89,7 +89,7 @@ def test_inline_heat_carries_the_steel_file_options_and_its_own_stem(tmp_path):
 def test_out_of_range_composition_warns_but_runs(tmp_path):
     result = runner.invoke(app, ["check", "--composition", "C=0.4,Mn=0.8,Cr=2.5", "--grain-size", "7"])
     assert result.exit_code == 0
-    assert "Cr = 2.5 mass % is outside" in result.output and "Li et al. (1998)" in result.output
+    assert "Cr = 2.5 mass % is outside" in result.output and "Kirkaldy & Venugopalan (1984)" in result.output
 
 
 BAD_INLINE = {

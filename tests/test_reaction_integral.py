@@ -132,20 +132,22 @@ def test_inverse_ends_and_refusal():
         reaction_integral_inverse(3.0)
 
 
-def test_intervals_found_without_search_are_the_searched_ones():
+@pytest.mark.parametrize("p, c, mirrored", [(0.4, 0.0, False), (2 / 3, 0.0, False), (2 / 3, 4.0, False),
+                                         (2 / 3, 4.0, True)])
+def test_intervals_found_without_search_are_the_searched_ones(p, c, mirrored):
     # Reference: numpy.searchsorted on the table's own nodes. The fast lookups (arithmetic
-    # for S, one bucket plus one comparison for the inverse) must land in the interval the
-    # search finds, or next to it only where a value sits on a node (same value either side);
-    # S differs from the searched table by rounding only (v**3 for y**0.6).
-    from isokin.relations import li_reaction as L
+    # for S, a bucket plus the counted comparisons for the inverse) must land in the interval
+    # the search finds, or next to it only where a value sits on a node (same value either
+    # side); S differs from the searched table by rounding only (v**3 for y**(1 - p)).
+    from isokin.relations.reaction_terms import PieceTable
 
+    table = PieceTable(p, c, mirrored)
     rng = np.random.default_rng(3)
-    y = np.concatenate([0.5 * rng.random(200_000), L._TABLE_Y, 0.5 * rng.random(1000) ** 8])
-    found = np.minimum((y**0.2 * L._V_SCALE).astype(np.intp), L._INTERVALS - 1)
-    searched = np.clip(np.searchsorted(L._TABLE_W, y**0.6, side="right") - 1, 0, L._INTERVALS - 1)
+    y = np.concatenate([0.5 * rng.random(200_000), table.y, 0.5 * rng.random(1000) ** 8])
+    found = np.minimum((y**table.k * table.v_scale).astype(np.intp), table.intervals - 1)
+    searched = np.clip(np.searchsorted(table.w, y ** (1 - p), side="right") - 1, 0, table.intervals - 1)
     assert np.all(np.abs(found - searched) <= 1)
-    np.testing.assert_allclose(L._lower_half_interval(y), L._S_OF_W(y**0.6), rtol=1e-14, atol=1e-300)
-    r = np.cbrt(L._TABLE_S / L._HALF)
-    assert np.bincount(np.minimum((r * L._BUCKETS).astype(np.intp), L._BUCKETS - 1)).max() <= 1
-    s = np.concatenate([L._HALF * rng.random(200_000), L._TABLE_S])
-    np.testing.assert_allclose(L._lower_half_inverse(s), L._W_OF_S(s), rtol=1e-15, atol=0.0)
+    np.testing.assert_allclose(table.forward(y), table.S_of_w(y ** (1 - p)), rtol=1e-14, atol=1e-300)
+    s = np.concatenate([table.half * rng.random(200_000), table.S])
+    w = np.clip(table.w_of_S(s), 0.0, None)
+    np.testing.assert_allclose(table.inverse(s), w ** (1 / (1 - p)), rtol=1e-13, atol=1e-300)

@@ -14,9 +14,10 @@ from hypothesis import strategies as st
 from scipy.integrate import quad
 
 from isokin.constants import CALORIE_J, GAS_CONSTANT_J_MOL_K, celsius_to_kelvin, kelvin_to_celsius
+import isokin
 from isokin.products.base import Product
-from isokin.products.li1998 import LI1998_KINETICS, LI1998_REFERENCE, Li1998Product
-from isokin.products.steel import li1998_products
+from isokin.products.li1998 import LI1998, LI1998_KINETICS, LI1998_REFERENCE
+from isokin.products.steel_kinetics import SteelProduct
 from isokin.relations.composition import Composition, range_warnings
 from isokin.relations.li_reaction import reaction_integral
 
@@ -42,6 +43,18 @@ LI = {
     ),
 }
 PRODUCTS = list(LI)
+
+
+def Li1998Product(cls, coefficients, composition, grain, upper, lower):
+    return SteelProduct(cls, coefficients, composition, grain, upper, lower, model=f"{LI1998.label}, {LI1998.reference}",
+                        calibrated_ranges=LI1998.ranges)
+
+
+def li_steel(composition, grain, **options):
+    """A steel with Li's kinetics: (products, martensite, critical lines in K)."""
+    alloy = isokin.steel(composition if isinstance(composition, dict) else composition.as_dict(), grain,
+                         kinetics_model="li_1998", **options)
+    return alloy.products, alloy.martensite, alloy.critical_K
 
 
 def _make(cls, grain=7.0, upper=UPPER_K, lower=LOWER_K, **changes):
@@ -80,7 +93,8 @@ def test_coefficients_as_data_are_the_recalled_ones(cls):
     expected_terms = {k: v for k, v in p["terms"].items() if v}
     if cls == "pearlite":
         expected_terms["sqrt_Mo"] = 5.19
-    assert c.constant == p["constant"] and dict(c.terms) == expected_terms
+    assert c.constant == p["constant"] and dict(c.terms) == expected_terms and not c.linear
+    assert c.reaction_exponent == 0.4 and c.grain_size_offset == 0.0 and not c.drag_terms and not c.retardation_terms
     assert c.undercooling_exponent == p["n"] and c.grain_size_coefficient == p["grain"]
     assert c.activation_energy_cal_mol == pytest.approx(p["Q_cal"], rel=1e-15)
 
@@ -167,10 +181,9 @@ def test_one_astm_number_finer_shortens_times_by_two_to_the_grain_coefficient(cl
 def test_eutectoid_steel_pearlite_nose():
     # Common practice: a plain eutectoid steel (about 0.8 C, 0.76 Mn, ASTM 6) starts
     # pearlite fastest between 500 and 600 C, in about one second.
-    steel = Composition.from_dict({"C": 0.80, "Mn": 0.76})
-    products, _, critical = li1998_products(steel, 6.0)
+    products, _, critical = li_steel({"C": 0.80, "Mn": 0.76}, 6.0)
     pearlite = products[1]
-    T = np.linspace(critical["Ms"].value_K, critical["Ae1"].value_K, 20001)
+    T = np.linspace(pearlite.lower_K, critical["Ae1"], 20001)
     t01 = pearlite.time_to_fraction(T, 0.01)
     nose = np.argmin(t01)
     assert 500.0 < kelvin_to_celsius(T[nose]) < 600.0
@@ -182,47 +195,46 @@ def test_eutectoid_steel_pearlite_nose():
 
 def test_no_proeutectoid_ferrite_at_or_above_the_eutectoid_carbon():
     T = celsius_to_kelvin(np.linspace(100.0, 900.0, 801))
-    eutectoid, _, _ = li1998_products(Composition.from_dict({"C": 0.80, "Mn": 0.76}), 6.0)
+    eutectoid, _, _ = li_steel({"C": 0.87, "Mn": 0.76}, 6.0)
     assert np.all(np.isinf(eutectoid[0].time_to_fraction(T, 0.01)))
     assert np.all(eutectoid[0].rate(T, 0.1) == 0.0)
     assert eutectoid[0].upper_K == eutectoid[0].lower_K
-    hypo, _, _ = li1998_products(Composition.from_dict({"C": 0.40, "Mn": 0.76}), 6.0)
+    hypo, _, _ = li_steel({"C": 0.40, "Mn": 0.76}, 6.0)
     assert np.any(np.isfinite(hypo[0].time_to_fraction(T, 0.01)))
 
 
-def test_convenience_function_reports_critical_temperatures_with_methods():
-    # AISI 4340 at mid-range of SAE J404 (ranges from memory).
-    steel = Composition.from_dict(
-        {"C": 0.405, "Mn": 0.70, "Si": 0.25, "Ni": 1.825, "Cr": 0.80, "Mo": 0.25}
-    )
-    products, martensite, critical = li1998_products(steel, 7.0)
+def test_products_lie_in_their_domains_with_li_s_own_bs():
+    # AISI 4340 at mid-range of SAE J404 (ranges from memory). Ferrite below Ae3, pearlite
+    # below Ae1, both above Li's own Bs (from memory: 637 - 58 C - 35 Mn - 15 Ni - 34 Cr -
+    # 41 Mo); bainite from that Bs to Ms.
+    steel = {"C": 0.405, "Mn": 0.70, "Si": 0.25, "Ni": 1.825, "Cr": 0.80, "Mo": 0.25}
+    products, martensite, critical = li_steel(steel, 7.0)
+    bs_li = celsius_to_kelvin(637 - 58 * 0.405 - 35 * 0.70 - 15 * 1.825 - 34 * 0.80 - 41 * 0.25)
     assert [p.name for p in products] == ["ferrite", "pearlite", "bainite"]
-    assert martensite.upper_K == critical["Ms"].value_K
+    assert martensite.upper_K == critical["Ms"]
     assert list(critical) == ["Ae3", "Ae1", "Bs", "Ms", "M50", "M90"]
-    assert products[0].upper_K == critical["Ae3"].value_K
-    assert products[1].upper_K == critical["Ae1"].value_K
-    assert products[2].upper_K == critical["Bs"].value_K
-    assert all(p.lower_K == critical["Ms"].value_K for p in products)
-    assert critical["Ae3"].value_K > critical["Ae1"].value_K > critical["Bs"].value_K
-    assert critical["Ms"].value_K > critical["M50"].value_K > critical["M90"].value_K
-    assert "Andrews" in critical["Ms"].method and "Koistinen" in critical["M90"].method
-    _, _, other = li1998_products(steel, 7.0, ms_method="steven_haynes_1956")
-    assert "Steven" in other["Ms"].method and other["Ms"].value_K != critical["Ms"].value_K
-    with pytest.raises(ValueError, match="andrews_1965"):
-        li1998_products(steel, 7.0, ms_method="andrews")
+    assert products[0].upper_K == critical["Ae3"] and products[1].upper_K == critical["Ae1"]
+    assert products[2].upper_K == pytest.approx(bs_li, abs=1e-9)
+    assert products[0].lower_K == products[1].lower_K == pytest.approx(bs_li, abs=1e-9)
+    assert products[2].lower_K == critical["Ms"]
+    assert critical["Ae3"] > critical["Ae1"] > critical["Bs"] > critical["Ms"] > critical["M50"] > critical["M90"]
+    _, _, other = li_steel(steel, 7.0, ms_method="steven_haynes_1956")
+    assert other["Ms"] != critical["Ms"]
+    with pytest.raises(isokin.InputError, match="andrews_1965"):
+        li_steel(steel, 7.0, ms_method="andrews")
 
 
 def test_validity_ranges_give_warnings_that_name_the_model():
     steel = Composition.from_dict({"C": 0.95, "Mn": 0.3, "Cr": 1.45})
-    warnings = range_warnings(steel, Li1998Product.calibrated_ranges, LI1998_REFERENCE)
+    warnings = range_warnings(steel, LI1998.ranges, LI1998_REFERENCE)
     assert len(warnings) == 1 and warnings[0].startswith("C = 0.95") and "Li" in warnings[0]
 
 
 @settings(max_examples=40, deadline=None)
 @given(steel=steels, grain=grains)
 def test_times_are_ordered_where_a_product_forms_and_infinite_elsewhere(steel, grain):
-    products, _, critical = li1998_products(Composition.from_dict(steel), grain)
-    T = np.linspace(critical["Ms"].value_K - 50.0, critical["Ae3"].value_K + 50.0, 400)
+    products, _, critical = li_steel(steel, grain)
+    T = np.linspace(critical["Ms"] - 50.0, max(p.upper_K for p in products) + 50.0, 400)
     X = np.array([[0.01], [0.5], [0.99]])
     for product in products:
         t = product.time_to_fraction(T, X)
@@ -237,8 +249,8 @@ def test_times_are_ordered_where_a_product_forms_and_infinite_elsewhere(steel, g
 def test_molybdenum_and_chromium_delay_the_pearlite_nose(steel, grain, dmo, dcr):
     # Common practice: Mo and Cr make steels more hardenable by delaying pearlite.
     def nose_time(composition):
-        products, _, critical = li1998_products(Composition.from_dict(composition), grain)
-        T = np.linspace(critical["Ms"].value_K, critical["Ae1"].value_K, 3001)
+        products, _, critical = li_steel(composition, grain)
+        T = np.linspace(critical["Ms"], critical["Ae1"], 3001)
         return np.min(products[1].time_to_fraction(T, 0.01))
 
     base = nose_time(steel)
@@ -284,17 +296,15 @@ def test_a_batch_of_ten_thousand_steels_matches_one_by_one():
     }
     grain = rng.uniform(4.0, 10.0, n)
     T = np.linspace(450.0, 1150.0, 200)
-    batch = Composition.from_dict(columns)
-    products, _, critical = li1998_products(batch, grain)
+    products, _, critical = li_steel(columns, grain)
     times = [p.time_to_fraction(T[None, :], 0.01) for p in products]
     rates = [p.rate(T[None, :], 0.3) for p in products]
     assert times[0].shape == (n, 200)
     # One by one for a random sample of the batch (all 10 000 would only repeat the check).
     for i in rng.choice(n, size=60, replace=False):
-        single = Composition.from_dict({k: v[i] for k, v in columns.items()})
-        products_i, _, critical_i = li1998_products(single, grain[i])
-        for key in critical:
-            assert critical[key].value_K[i] == pytest.approx(critical_i[key].value_K, rel=1e-14)
+        products_i, _, critical_i = li_steel({k: v[i] for k, v in columns.items()}, grain[i])
+        for key in critical_i:
+            assert critical[key][i] == pytest.approx(critical_i[key], rel=1e-14)
         for k, product in enumerate(products_i):
             np.testing.assert_allclose(times[k][i], product.time_to_fraction(T, 0.01), rtol=1e-13)
             np.testing.assert_allclose(rates[k][i], product.rate(T, 0.3), rtol=1e-13)

@@ -7,6 +7,8 @@ version`` start fast.
 
 from __future__ import annotations
 
+import functools
+import inspect
 import math
 import os
 import re
@@ -37,6 +39,8 @@ OPTION_NAMES = {
     "steel.grain_size_astm": "--grain-size",
     "steel.austenitizing_temperature_C": "--austenitizing-c",
     "steel.ms_method": "--ms-method",
+    "steel.bs_method": "--bs-method",
+    "steel.kinetics_model": "--kinetics",
     "tmin_C": "--tmin-c",
     "tmax_C": "--tmax-c",
     "points": "--points",
@@ -114,15 +118,19 @@ def _stem(text: str) -> str:
 
 
 class Inline:
-    """The steel options that go with --composition."""
+    """The steel options of a command line: --composition and what goes with it, --kinetics."""
 
-    def __init__(self, composition, grain_size, austenitizing_c, ms_method, name):
+    def __init__(self, composition=None, grain_size=None, austenitizing_c=None, ms_method=None, bs_method=None,
+                 kinetics=None, calibration=None, name=None):
         self.composition, self.grain_size, self.austenitizing_c = composition, grain_size, austenitizing_c
-        self.ms_method, self.name = ms_method, name
+        self.ms_method, self.bs_method, self.kinetics = ms_method, bs_method, kinetics
+        self.calibration, self.name = calibration, name
 
     def given(self):
+        """The options given that only go with --composition."""
         return {k: v for k, v in (("--grain-size", self.grain_size), ("--austenitizing-c", self.austenitizing_c),
-                                  ("--ms-method", self.ms_method), ("--name", self.name)) if v is not None}
+                                  ("--ms-method", self.ms_method), ("--bs-method", self.bs_method),
+                                  ("--calibration", self.calibration), ("--name", self.name)) if v is not None}
 
 
 def _load(alloy_file: Optional[Path], inline: Inline):
@@ -134,7 +142,7 @@ def _load(alloy_file: Optional[Path], inline: Inline):
             raise InputError(None, option, "goes with --composition; an alloy file sets it itself")
         from ..io.alloy_file import load_alloy
 
-        alloy = load_alloy(alloy_file)
+        alloy = load_alloy(alloy_file, kinetics_model=inline.kinetics)
         stem = alloy_file.stem if not alloy_file.stem.startswith(".") else _stem(alloy.name)
         return alloy, stem
     if alloy_file is not None:
@@ -143,10 +151,16 @@ def _load(alloy_file: Optional[Path], inline: Inline):
 
     composition = parse_inline_composition(inline.composition)
     notes = [] if inline.grain_size is not None else [f"no --grain-size given; taking ASTM {DEFAULT_GRAIN_SIZE_ASTM:g}"]
+    calibration = None
+    if inline.calibration is not None:
+        from ..io.steel_file import load_calibration
+
+        calibration = load_calibration(inline.calibration)
     analysis = ", ".join(f"{k} {v:g}" for k, v in composition.items())
     name = inline.name or f"heat analysis {analysis}"
     alloy = steel(composition, inline.grain_size, name=name, austenitizing_temperature_C=inline.austenitizing_c,
-                  ms_method=inline.ms_method)
+                  ms_method=inline.ms_method, bs_method=inline.bs_method, kinetics_model=inline.kinetics,
+                  calibration=calibration)
     stem = _stem(inline.name) if inline.name else _stem("heat " + " ".join(f"{k}{v:g}" for k, v in composition.items()))
     return alloy.replace(warnings=(*notes, *alloy.warnings)), stem
 
@@ -247,28 +261,67 @@ AustenitizingOpt = Annotated[
 ]
 MsMethodOpt = Annotated[
     Optional[str],
-    typer.Option("--ms-method", help="Ms correlation with --composition: andrews_1965, andrews_1965_product or "
-                 "steven_haynes_1956 (default: Andrews linear to 0.6 % C, product form above)."),
+    typer.Option("--ms-method", help="Ms correlation with --composition: van_bohemen_2012 (default, the most "
+                 "accurate on measured data), andrews_1965, andrews_1965_product or steven_haynes_1956."),
+]
+BsMethodOpt = Annotated[
+    Optional[str],
+    typer.Option("--bs-method", metavar="METHOD", help="Bs line with --composition: van_bohemen_2012 (default), steven_haynes_1956, "
+                 "kirkaldy_venugopalan_1984 or li_1998."),
+]
+KineticsOpt = Annotated[
+    Optional[str],
+    typer.Option("--kinetics", metavar="MODEL", help="Steel kinetics: kirkaldy_venugopalan_1984 (default) or li_1998; with an alloy "
+                 "file it replaces the file's choice."),
+]
+CalibrationOpt = Annotated[
+    Optional[Path],
+    typer.Option("--calibration", metavar="FILE", help="A calibrated alloy file (from isokin fit) whose fitted kinetics to apply "
+                 "to the --composition heat.", show_default=False),
 ]
 NameOpt = Annotated[
     Optional[str],
     typer.Option("--name", help="Name of the heat, with --composition; also names the output files."),
 ]
+#: The options of a steel given on the command line, in the order --help lists them.
+_STEEL_OPTIONS = (("composition", CompositionOpt), ("grain_size", GrainOpt), ("austenitizing_c", AustenitizingOpt),
+                  ("ms_method", MsMethodOpt), ("bs_method", BsMethodOpt), ("kinetics", KineticsOpt),
+                  ("calibration", CalibrationOpt), ("name", NameOpt))
+
+
+def steel_options(command):
+    """Give a command the options of a steel on the command line (see :data:`_STEEL_OPTIONS`),
+    after its alloy file; the command receives them as one ``inline`` argument."""
+    signature = inspect.signature(command, eval_str=True)
+    params = [p for p in signature.parameters.values() if p.name != "inline"]
+    extra = [inspect.Parameter(name, inspect.Parameter.POSITIONAL_OR_KEYWORD, default=None, annotation=kind)
+             for name, kind in _STEEL_OPTIONS]
+
+    @functools.wraps(command)
+    def with_options(**kwargs):
+        return command(inline=Inline(**{name: kwargs.pop(name) for name, _ in _STEEL_OPTIONS}), **kwargs)
+
+    with_options.__signature__ = signature.replace(parameters=[params[0], *extra, *params[1:]])
+    with_options.__annotations__ = {p.name: p.annotation for p in with_options.__signature__.parameters.values()}
+    return with_options
 UnitsOpt = Annotated[Units, typer.Option("--units", help="Temperatures of the figure and printed tables: C or F "
                                           "(files keep °C).")]
 OutOpt = Annotated[Path, typer.Option("--out", help="Folder for the output files.")]
 FormatOpt = Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")]
 OverwriteOpt = Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")]
+RangeOpt = Annotated[Optional[str], typer.Option("--range", metavar="EL=MIN:MAX,...",
+                     help='Composition range, mass %, e.g. "C=0.38:0.43,Mn=0.75:1.00" (or EL=NOMINAL+-SIGMA).')]
+SamplesOpt = Annotated[Optional[int], typer.Option("--samples", parser=_whole, metavar="N",
+                       help="Heats sampled over the range (Latin hypercube).")]
+SeedOpt = Annotated[Optional[int], typer.Option("--seed", parser=_whole, metavar="N",
+                    help="Seed of the sampling (default 0): the same seed gives the same heats.")]
 
 
 @app.command()
+@steel_options
 def diagram(
     alloy_file: AlloyArg = None,
-    composition: CompositionOpt = None,
-    grain_size: GrainOpt = None,
-    austenitizing_c: AustenitizingOpt = None,
-    ms_method: MsMethodOpt = None,
-    name: NameOpt = None,
+    inline: Inline = None,
     out: OutOpt = Path("isokin-out"),
     fraction: Annotated[
         Optional[list[float]],
@@ -292,7 +345,7 @@ def diagram(
     from ..compute.ttt import ttt
 
     try:
-        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        alloy, stem = _load(alloy_file, inline)
         grid = alloy_grid(alloy, tmin_c, tmax_c, points)
         fr = check_fractions(default_fractions(fraction or ()), key="fractions")
         paths = _output_paths(out, {"figure": f"{stem}.{fmt.value}", "curves": f"{stem}-curves.csv",
@@ -317,13 +370,10 @@ def diagram(
 
 
 @app.command()
+@steel_options
 def check(
     alloy_file: AlloyArg = None,
-    composition: CompositionOpt = None,
-    grain_size: GrainOpt = None,
-    austenitizing_c: AustenitizingOpt = None,
-    ms_method: MsMethodOpt = None,
-    name: NameOpt = None,
+    inline: Inline = None,
     units: UnitsOpt = Units.C,
 ):
     """Validate an alloy and print what follows from it: critical temperatures, nuclei, noses."""
@@ -331,7 +381,7 @@ def check(
     from ..products.base import ReportsNucleus
 
     try:
-        alloy, _ = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        alloy, _ = _load(alloy_file, inline)
         result = ttt(alloy)
     except InputError as exc:
         fail(exc)
@@ -392,8 +442,10 @@ def _durations(times: list, grid: Optional[str]) -> list:
 
 
 @app.command()
+@steel_options
 def hold(
     alloy_file: AlloyArg = None,
+    inline: Inline = None,
     temperature_c: Annotated[Optional[float], typer.Option("--temperature-c", parser=_decimal, metavar="NUMBER",
                                                            help="Hold temperature, °C.")] = None,
     time: Annotated[Optional[list[str]], typer.Option("--time", metavar="DURATION",
@@ -402,11 +454,6 @@ def hold(
                      help="A log-spaced grid of hold times, e.g. 10s..8h/12.")] = None,
     quench_to_c: Annotated[Optional[float], typer.Option("--quench-to-c", parser=_decimal, metavar="NUMBER",
                                                          help="Quench after the hold to this, °C (default 20).")] = None,
-    composition: CompositionOpt = None,
-    grain_size: GrainOpt = None,
-    austenitizing_c: AustenitizingOpt = None,
-    ms_method: MsMethodOpt = None,
-    name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
@@ -420,7 +467,7 @@ def hold(
     from ..compute.decomposition import hold as hold_at
 
     try:
-        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        alloy, stem = _load(alloy_file, inline)
         if temperature_c is None:
             raise InputError(None, "--temperature-c", "give the hold temperature, e.g. --temperature-c 450")
         seconds = _durations(time, times)
@@ -479,17 +526,14 @@ def _final_table(labels, result, units):
 
 
 @app.command()
+@steel_options
 def cct(
     alloy_file: AlloyArg = None,
+    inline: Inline = None,
     rates: Annotated[Optional[str], typer.Option("--rates", metavar="K_PER_S,...",
                      help="Constant cooling rates, K/s, comma-separated (default 21 from 0.01 to 1000).")] = None,
     start_c: Annotated[Optional[float], typer.Option("--start-c", parser=_decimal, metavar="NUMBER",
                        help="Start of cooling, °C (default the highest temperature where a product forms).")] = None,
-    composition: CompositionOpt = None,
-    grain_size: GrainOpt = None,
-    austenitizing_c: AustenitizingOpt = None,
-    ms_method: MsMethodOpt = None,
-    name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
     fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
@@ -503,7 +547,7 @@ def cct(
     from ..compute.cooling import cct as cct_of
 
     try:
-        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        alloy, stem = _load(alloy_file, inline)
         status("solving the cooling rates")
         result = cct_of(alloy, _rates(rates), start_C=start_c)
         paths = _output_paths(out, {"figure": f"{stem}-cct.{fmt.value}", "curves": f"{stem}-cct-curves.csv",
@@ -529,8 +573,10 @@ def cct(
 
 
 @app.command()
+@steel_options
 def cool(
     alloy_file: AlloyArg = None,
+    inline: Inline = None,
     rate: Annotated[Optional[list[float]], typer.Option("--rate", parser=_decimal, metavar="K_PER_S",
                     help="Constant cooling rate, K/s; repeatable.")] = None,
     log: Annotated[Optional[Path], typer.Option("--log", help="Measured log: CSV with time_s,temperature_C.")] = None,
@@ -546,11 +592,6 @@ def cool(
     start_c: Annotated[Optional[float], typer.Option("--start-c", parser=_decimal, metavar="NUMBER",
                        help="Start of cooling, °C (default the austenitizing temperature, else the highest "
                             "temperature where a product forms).")] = None,
-    composition: CompositionOpt = None,
-    grain_size: GrainOpt = None,
-    austenitizing_c: AustenitizingOpt = None,
-    ms_method: MsMethodOpt = None,
-    name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
     fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
@@ -566,7 +607,7 @@ def cool(
     from ..compute import cooling as C
 
     try:
-        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        alloy, stem = _load(alloy_file, inline)
         start = C.default_start_C(alloy) if start_c is None else start_c
         kinds = sum(x is not None and x != [] for x in (rate, log, medium_c))
         if kinds != 1:
@@ -640,8 +681,10 @@ def _duration_option(text: Optional[str], option: str) -> Optional[float]:
 
 
 @app.command()
+@steel_options
 def plan(
     alloy_file: AlloyArg = None,
+    inline: Inline = None,
     route: Annotated[Optional[Route], typer.Option("--route", help="austemper, interrupted-quench or anneal.")] = None,
     max_hold: Annotated[Optional[str], typer.Option("--max-hold", metavar="DURATION",
                         help="Austemper: the longest hold the line allows (default 4h).")] = None,
@@ -663,11 +706,6 @@ def plan(
     range_text: RangeOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,
-    composition: CompositionOpt = None,
-    grain_size: GrainOpt = None,
-    austenitizing_c: AustenitizingOpt = None,
-    ms_method: MsMethodOpt = None,
-    name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
     fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
@@ -682,7 +720,7 @@ def plan(
     from ..compute import plan as planning
 
     try:
-        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        alloy, stem = _load(alloy_file, inline)
         if route is None:
             raise InputError(None, "--route", "choose austemper, interrupted-quench or anneal")
         options = {}
@@ -850,13 +888,6 @@ def fit(
     typer.echo(CAUTION)
 
 
-RangeOpt = Annotated[Optional[str], typer.Option("--range", metavar="EL=MIN:MAX,...",
-                     help='Composition range, mass %, e.g. "C=0.38:0.43,Mn=0.75:1.00" (or EL=NOMINAL+-SIGMA).')]
-SamplesOpt = Annotated[Optional[int], typer.Option("--samples", parser=_whole, metavar="N",
-                       help="Heats sampled over the range (Latin hypercube).")]
-SeedOpt = Annotated[Optional[int], typer.Option("--seed", parser=_whole, metavar="N",
-                    help="Seed of the sampling (default 0): the same seed gives the same heats.")]
-
 
 def _ranges(alloy, text):
     """The composition range: --range, else the alloy file's [composition_range]."""
@@ -904,16 +935,13 @@ def _sampling(samples, seed):
 
 
 @app.command()
+@steel_options
 def spread(
     alloy_file: AlloyArg = None,
+    inline: Inline = None,
     range_text: RangeOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,
-    composition: CompositionOpt = None,
-    grain_size: GrainOpt = None,
-    austenitizing_c: AustenitizingOpt = None,
-    ms_method: MsMethodOpt = None,
-    name: NameOpt = None,
     out: OutOpt = Path("isokin-out"),
     fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
@@ -928,7 +956,7 @@ def spread(
     from ..compute.spread import spread as spread_of
 
     try:
-        alloy, stem = _load(alloy_file, Inline(composition, grain_size, austenitizing_c, ms_method, name))
+        alloy, stem = _load(alloy_file, inline)
         if alloy.model != "steel":
             raise InputError(None, "ALLOY", "a composition spread is for steels")
         status("sampling the heats")
@@ -988,8 +1016,8 @@ def compare(
     from ..compute.ttt import ttt
 
     try:
-        alloys = [_load(path, Inline(None, None, None, None, None))[0] for path in alloy_files or []]
-        alloys += [_load(None, Inline(text, grain_size, None, None, None))[0] for text in composition or []]
+        alloys = [_load(path, Inline())[0] for path in alloy_files or []]
+        alloys += [_load(None, Inline(text, grain_size))[0] for text in composition or []]
         if len(alloys) < 2:
             raise InputError(None, "ALLOY", "give two or more alloy files or --composition heats to compare")
         if len(alloys) > 6:

@@ -129,14 +129,30 @@ class Decomposition:
 
     def time_to_total(self, share):
         """Seconds until the total reaches ``share`` of what can transform at T (0 < share < 1);
-        ``inf`` where nothing can transform. Broadcasts ``share`` against T."""
+        ``inf`` where nothing can transform. Broadcasts ``share`` against T.
+
+        Where one product alone can form, it is that product's own time (closed form); where
+        several can, the root of the total in ln t, bracketed by each product alone.
+        """
         W = self.transformable
-        target = np.asarray(share, dtype=float) * W
+        share = np.asarray(share, dtype=float)
+        target = share * W
         shape = np.broadcast_shapes(np.shape(target), self.T.shape)
         target = np.broadcast_to(target, shape)
+        active = sum((cap > 0.0).astype(int) for cap in self.caps.values())
+        result = np.full(shape, np.inf)
+        alone = np.broadcast_to((active == 1) & (W > 0.0), shape)
+        if alone.any():
+            for p in self.alloy.products:
+                mine = alone & (self.caps[p.name] > 0.0)
+                if mine.any():
+                    t = self.delays[p.name] + p.time_to_fraction(self.T, np.broadcast_to(share, shape))
+                    np.copyto(result, np.broadcast_to(t, shape), where=mine)
+        several = np.broadcast_to(active > 1, shape)
+        if not several.any():
+            return result
         # Brackets from each product alone: the total is at least any one product's share,
         # and at most the sum of them.
-        active = sum((cap > 0.0).astype(float) for cap in self.caps.values())
         hi = np.full(shape, np.inf)
         lo = np.full(shape, np.inf)
         for p in self.alloy.products:
@@ -148,12 +164,13 @@ class Decomposition:
                 ok = need < 1.0
                 t = start + p.time_to_fraction(self.T, np.where(ok, need, 0.5))
                 bound[...] = np.minimum(bound, np.where(ok, t, np.inf))
-        solvable = (W > 0.0) & np.isfinite(hi) & np.isfinite(lo)
+        solvable = several & (W > 0.0) & np.isfinite(hi) & np.isfinite(lo)
         lo = np.where(solvable, np.maximum(lo, 1e-300), 1.0)
         hi = np.where(solvable, np.maximum(hi, lo), 1.0)
         root = _illinois(self._total_at(shape), np.log(lo).ravel(), np.log(hi).ravel(), target.ravel(),
                          np.flatnonzero(solvable)).reshape(shape)
-        return np.where(solvable, np.exp(root), np.inf)
+        np.copyto(result, np.exp(root), where=solvable)
+        return result
 
     def _total_at(self, shape):
         """total(t, idx): the total at times t of the points idx of the flattened shape.
@@ -438,10 +455,26 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
 
 def _illinois(total, a, b, target, idx):
     """Vectorised Illinois regula falsi for total(e^u) = target in u = ln t on [a, b], per
-    point, to 1e-9 in ln t; points drop out as they converge. Returns u for every point."""
+    point, to 1e-9 in ln t; points drop out as they converge. Returns u for every point.
+
+    An end that meets the target to rounding is the root; an upper end that falls short by
+    rounding (a bracket from one product alone, exact in theory) is moved up until it holds.
+    """
     u = b.copy()
     a, b, target = a[idx], b[idx], target[idx]
     fa, fb = total(np.exp(a), idx) - target, total(np.exp(b), idx) - target
+    tiny = 1e-12 * np.maximum(target, 1e-300)
+    for _ in range(60):
+        short = (fb < -tiny) & (fa < -tiny)
+        if not short.any():
+            break
+        a, fa = np.where(short, b, a), np.where(short, fb, fa)
+        b = np.where(short, b + 0.1, b)
+        fb = np.where(short, total(np.exp(b), idx) - target, fb)
+    at_end = (np.abs(fb) <= tiny) | (np.abs(fa) <= tiny)
+    u[idx] = np.where(np.abs(fa) <= tiny, a, b)
+    going = ~at_end
+    idx, a, b, fa, fb, target = idx[going], a[going], b[going], fa[going], fb[going], target[going]
     for _ in range(_ILLINOIS_STEPS):
         if idx.size == 0:
             break

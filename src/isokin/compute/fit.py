@@ -9,8 +9,8 @@ option, and parameter sets drawn from the covariance give the band on the fitted
 
 Free parameters are named ``<product>.<parameter>``:
 
-- steels (Li et al. 1998): ``factor`` (a multiplier on F, fitted in its logarithm; it
-  shifts the constant of ln F), ``activation_energy_cal_mol``, ``undercooling_exponent``;
+- steels: ``factor`` (a multiplier on F, fitted in its logarithm, relative to the alloy's
+  own), ``activation_energy_cal_mol``, ``undercooling_exponent``;
 - physical products: ``interface_energy_J_m2`` (an effective value, standing for gamma
   with its shape factor), ``diffusion_prefactor_m2_s`` (fitted in its logarithm),
   ``nucleation_activation_J_mol``, ``diffusion_activation_J_mol``.
@@ -111,7 +111,7 @@ def with_values(alloy, values: dict):
             base = next(p for p in alloy.products if p.name == product).coefficients
             change = kinetics.setdefault(product, {})
             if parameter == "factor":
-                change["constant"] = base.constant + np.log(value)
+                change["factor"] = base.factor * np.asarray(value)
             elif parameter == "activation_energy_cal_mol":
                 change["activation_energy_J_mol"] = np.asarray(value) * CALORIE_J
             else:

@@ -44,13 +44,16 @@ def _loaders():
     return {model: importlib.import_module(name) for model, name in MODEL_LOADERS.items()}
 
 
-def load_alloy(path):
+def load_alloy(path, kinetics_model=None):
     """Read an alloy file and build its :class:`~isokin.products.alloy.Alloy`.
 
-    Raises InputError with one line naming the file, the key and what would be right.
+    ``kinetics_model`` (a steel's) replaces the file's ``[steel] kinetics_model``. Raises
+    InputError with one line naming the file, the key and what would be right.
     """
     path = Path(path)
     data = parse_toml(path)
+    if kinetics_model is not None:
+        data = _with_kinetics_model(path, data, kinetics_model)
     loaders = _loaders()
     known = COMMON_TABLES + tuple(t for m in loaders.values() for t in m.TABLES)
     for name in data:
@@ -73,6 +76,18 @@ def load_alloy(path):
     if "calibration" in data:
         alloy = alloy.replace(inputs={**alloy.inputs, "calibration": data["calibration"]})
     return _apply_diagram_range(path, alloy, diagram, data.get("diagram", {}))
+
+
+def _with_kinetics_model(path, data, kinetics_model):
+    """The file's tables with another steel kinetic model, where that can be."""
+    steel = data.get("steel")
+    if not isinstance(steel, dict) or data.get("alloy", {}).get("model") != "steel":
+        raise InputError(path, "steel.kinetics_model", "a kinetic model is chosen for steels (model = 'steel') only")
+    own = steel.get("kinetics_model")
+    if "kinetics" in steel and own != kinetics_model:
+        raise InputError(path, "steel.kinetics", f"overrides coefficients of the file's own kinetic model; they do not "
+                         f"carry over to {kinetics_model!r}: remove them or keep the file's model")
+    return {**data, "steel": {**steel, "kinetics_model": kinetics_model}}
 
 
 def _apply_diagram_range(source, alloy, diagram: dict, raw: dict):

@@ -353,7 +353,7 @@ def calibrated_tables(result, data_name: str, digest: str, date: str) -> dict:
             entry = kinetics.setdefault(product, {})
             coefficients = next(p for p in result.fitted.products if p.name == product).coefficients
             if parameter == "factor":
-                entry["constant"] = float(coefficients.constant)
+                entry["factor"] = float(coefficients.factor)
             elif parameter == "activation_energy_cal_mol":
                 entry.pop("activation_energy_J_mol", None)
                 entry["activation_energy_cal_mol"] = float(coefficients.activation_energy_cal_mol)

@@ -1,7 +1,7 @@
 """Alloy files with ``model = "steel"``: ``[composition]`` (mass %) and ``[steel]``.
 
-``[steel.kinetics.<product>]`` tables override Li et al. (1998) coefficients of ferrite,
-pearlite or bainite.
+``[steel] kinetics_model`` picks the kinetic model; ``[steel.kinetics.<product>]`` tables
+override its coefficients of ferrite, pearlite or bainite.
 """
 
 from __future__ import annotations
@@ -9,8 +9,19 @@ from __future__ import annotations
 from pathlib import Path
 
 from ..errors import InputError
-from ..products.li1998 import LI1998_KINETICS
-from ..products.steel import GRAIN_SIZE_RANGE, MS_METHODS, steel
+import difflib
+
+from ..products.critical import BS_METHODS, MS_METHODS
+from ..products.steel import (
+    DEFAULT_KINETICS,
+    GRAIN_SIZE_RANGE,
+    KINETIC_KEYS,
+    KINETICS_MODELS,
+    TERM_PREFIXES,
+    Calibration,
+    steel,
+)
+from ..products.steel_kinetics import PRODUCT_SIGN, SQRT_PREFIX
 from ..relations.composition import ELEMENTS
 from .schema import Key, read_table
 
@@ -20,30 +31,51 @@ STEEL_KEYS = {
     "grain_size_astm": Key(float, required=True, low=GRAIN_SIZE_RANGE[0], high=GRAIN_SIZE_RANGE[1]),
     "austenitizing_temperature_C": Key(float, low=600.0, high=1350.0, unit="°C"),
     "ms_method": Key(str, choices=tuple(MS_METHODS)),
+    "bs_method": Key(str, choices=tuple(BS_METHODS)),
+    "kinetics_model": Key(str, choices=tuple(KINETICS_MODELS)),
 }
 COMPOSITION_KEYS = {symbol: Key(float, low=0.0, high=100.0, unit="mass %") for symbol in ELEMENTS}
-_TERM = Key(float, low=-100.0, high=100.0, unit="per mass %")
-KINETICS_KEYS = {
-    "constant": Key(float, low=-100.0, high=100.0),
+_TERM = Key(float, low=-100.0, high=1000.0, unit="per mass %")
+_TERMS = ([*ELEMENTS, *(SQRT_PREFIX + e for e in ELEMENTS),
+           *(f"{a}{PRODUCT_SIGN}{b}" for a in ELEMENTS for b in ELEMENTS if a != b)]
+          + [prefix + e for prefix in TERM_PREFIXES for e in ELEMENTS])
+_SCALARS = {
+    "constant": Key(float, low=-100.0, high=1000.0),
     "undercooling_exponent": Key(float, low=0.0, low_open=True, high=10.0),
     "activation_energy_cal_mol": Key(float, low=0.0, low_open=True, high=200_000.0, unit="cal/mol"),
     "activation_energy_J_mol": Key(float, low=0.0, low_open=True, high=840_000.0, unit="J/mol"),
+    "drag_activation_energy_cal_mol": Key(float, low=0.0, high=200_000.0, unit="cal/mol"),
+    "drag_activation_energy_J_mol": Key(float, low=0.0, high=840_000.0, unit="J/mol"),
     "grain_size_coefficient": Key(float, low=-2.0, high=2.0),
-    **{symbol: _TERM for symbol in ELEMENTS},
-    **{f"sqrt_{symbol}": _TERM for symbol in ELEMENTS},
+    "grain_size_offset": Key(float, low=-2.0, high=15.0),
+    "reaction_exponent": Key(float, low=0.0, low_open=True, high=0.95),
+    "retardation_constant": Key(float, low=-100.0, high=100.0),
+    "factor": Key(float, low=0.0, low_open=True, high=1e12),
 }
+assert set(_SCALARS) == set(KINETIC_KEYS)
+KINETICS_KEYS = {**_SCALARS, **{term: _TERM for term in _TERMS}}
 
 
 def read_kinetics(source, table) -> dict:
     """The ``[steel.kinetics]`` overrides, by product, checked key by key."""
     if not isinstance(table, dict):
         raise InputError(source, "steel.kinetics", "must be a table of products, e.g. [steel.kinetics.ferrite]")
+    products = ("ferrite", "pearlite", "bainite")
     out = {}
     for product, values in table.items():
-        if product not in LI1998_KINETICS:
-            raise InputError(source, f"steel.kinetics.{product}",
-                             f"unknown product; one of {', '.join(LI1998_KINETICS)}")
-        out[product] = read_table(source, f"steel.kinetics.{product}.", values, KINETICS_KEYS)
+        where = f"steel.kinetics.{product}"
+        if product not in products:
+            raise InputError(source, where, f"unknown product; one of {', '.join(products)}")
+        if not isinstance(values, dict):
+            raise InputError(source, where, "must be a table of coefficients")
+        for key in values:
+            if key not in KINETICS_KEYS:
+                near = difflib.get_close_matches(key, list(KINETICS_KEYS), n=1, cutoff=0.6)
+                hint = (f"did you mean '{near[0]}'?" if near else
+                        f"one of {', '.join(_SCALARS)} or a composition term such as C, sqrt_Mo, \"Mo*Ni\", drag_Mo "
+                        "or retardation_C")
+                raise InputError(source, f"{where}.{key}", f"unknown key; {hint}")
+        out[product] = read_table(source, where + ".", values, KINETICS_KEYS)
     return out
 
 
@@ -67,7 +99,8 @@ def load(source: Path, head: dict, data: dict):
     try:
         return steel(composition, options["grain_size_astm"], name=head["name"],
                      austenitizing_temperature_C=options.get("austenitizing_temperature_C"),
-                     ms_method=options.get("ms_method"), kinetics=kinetics, inputs=inputs)
+                     ms_method=options.get("ms_method"), bs_method=options.get("bs_method"),
+                     kinetics_model=options.get("kinetics_model"), kinetics=kinetics, inputs=inputs)
     except InputError as exc:
         raise exc.relocated(source) from None
 
@@ -99,3 +132,27 @@ def read_ranges(source, table) -> dict:
         return check_ranges({}, out)
     except InputError as exc:
         raise exc.relocated(source) from None
+
+
+def load_calibration(path) -> Calibration:
+    """The fitted kinetics of a calibrated steel file (one ``isokin fit`` wrote), to apply to
+    another analysis: its kinetic model, its ``[steel.kinetics]`` overrides and the record of
+    the fit with the reference analysis and the file it came from."""
+    from pathlib import Path
+
+    from .alloy_file import load_alloy
+    from .schema import parse_toml
+
+    path = Path(path)
+    alloy = load_alloy(path)  # checks every table as an alloy file
+    data = parse_toml(path)
+    if alloy.model != "steel":
+        raise InputError(path, "alloy.model", "a calibration to apply to a steel heat comes from a steel file")
+    if "calibration" not in data:
+        raise InputError(path, "calibration", "no [calibration] record: give the calibrated file that isokin fit wrote")
+    steel_table = data["steel"]
+    kinetics = read_kinetics(path, steel_table["kinetics"]) if "kinetics" in steel_table else {}
+    record = {"file": str(path), "reference_alloy": alloy.name, "reference_composition": dict(data["composition"]),
+              **data["calibration"]}
+    return Calibration(kinetics_model=steel_table.get("kinetics_model", DEFAULT_KINETICS), kinetics=kinetics,
+                       record=record)

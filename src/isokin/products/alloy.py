@@ -46,6 +46,14 @@ class Alloy:
         Product -> the product it waits for in the decomposition (pearlite -> ferrite).
     parent : str
         The phase the products form from ("austenite" for steels).
+    composition : Composition or None
+        The typed analysis of a steel (one heat or a batch).
+    options : dict
+        What builds the alloy again from its composition (a steel's grain size, methods,
+        kinetic model and coefficients, calibration), for sampling and fitting.
+    valid : ndarray of bool or None
+        For a batch, the members that could be computed (the others form nothing and their
+        lines are NaN); None where all could.
     """
 
     name: str
@@ -62,6 +70,9 @@ class Alloy:
     provenance: dict = field(default_factory=dict)
     sequence: dict = field(default_factory=dict)
     parent: str = "untransformed"
+    composition: object = None
+    options: dict = field(default_factory=dict)
+    valid: object = None
 
     @property
     def batch_shape(self) -> tuple:
