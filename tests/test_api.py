@@ -254,3 +254,22 @@ def test_no_import_cycles():
     for module in graph:
         if module not in state:
             visit(module, [module])
+
+
+def test_a_batch_with_heats_that_cannot_be_computed_returns_the_others():
+    # Ti 3 % puts Andrews' Ae3 near 1950 C (past the solidus): that heat is left out and named;
+    # Ms and Bs below absolute zero (25 Ni, 18 Cr) are answers: no martensite, no bainite.
+    heats = {"C": [0.4, 0.4, 0.4], "Mn": 0.8, "Ti": [0.0, 3.0, 0.0], "Ni": [0.0, 0.0, 25.0], "Cr": [1.0, 1.0, 18.0]}
+    alloy = isokin.steel(heats, 7.0, ms_method="andrews_1965")
+    assert alloy.valid.tolist() == [True, False, True]
+    assert any("Ae3" in w and "heat 1 of 3" in w and "left out" in w for w in alloy.warnings)
+    assert any("Ms by Andrews (1965), linear lies below absolute zero (heat 2 of 3)" in w for w in alloy.warnings)
+    result = isokin.ttt(alloy, points=40)
+    assert result.valid.tolist() == [True, False, True]
+    assert np.all(np.isinf(result.times_s["total"][1])) and np.isfinite(result.noses["total"].time_s[0]).all()
+    assert np.isnan(alloy.critical_K["Ae1"][1]) and np.isnan(alloy.critical_K["Ms"][2])
+    single = isokin.steel({k: (v[0] if isinstance(v, list) else v) for k, v in heats.items()}, 7.0,
+                          ms_method="andrews_1965")
+    np.testing.assert_allclose(result.times_s["total"][0], isokin.ttt(single, points=40).times_s["total"], rtol=1e-12)
+    with pytest.raises(isokin.InputError, match="Ae3 from Andrews"):
+        isokin.steel({"C": 0.4, "Mn": 0.8, "Ti": 3.0}, 7.0)

@@ -229,3 +229,37 @@ def test_own_curves_are_the_published_models_curves():
     for product in steel.products:
         own = product.time_to_fraction(T[None, :], result.fractions[:, None])
         np.testing.assert_allclose(result.times_s[product.name], np.where(own > 0, own, np.inf), rtol=1e-14)
+
+
+@pytest.mark.parametrize("alloy_file", ["aisi-4340-nicrmo", "aisi-4140-crmo", "brackwater-bw52crv",
+                                        "aisi-1080-eutectoid"])
+def test_any_fraction_of_the_whole_decomposition_agrees_with_a_hold(alloy_file):
+    # The total curve at X is where a hold at that temperature has transformed X of what can
+    # transform there: the same model read two ways, to 1e-3 absolute (here far closer).
+    alloy = isokin.load_alloy(ROOT / "alloys" / f"{alloy_file}.toml")
+    fractions = (0.01, 0.05, 0.1, 0.3, 0.5, 0.7, 0.95, 0.99)
+    result = isokin.ttt(alloy, fractions=fractions, points=60)
+    for i in range(0, 60, 3):
+        t = result.times_s["total"][:, i]
+        ok = np.isfinite(t)
+        if ok.any():
+            after = isokin.hold(alloy, float(result.temperatures_C[i]), t[ok], milestones=False)
+            done = sum(after.fractions[p.name] for p in alloy.products) / after.transformable
+            np.testing.assert_allclose(done, np.asarray(fractions)[ok], atol=1e-6)
+    # and a curve a fine grid draws does not zig-zag between neighbouring grid points: its
+    # slope changes sign only at its noses, at Ae1 (pearlite joins) and at the kinetic model's
+    # Bs (bainite takes over from ferrite and pearlite)
+    fine = isokin.ttt(alloy, fractions=(0.05,), points=400).times_s["total"][0]
+    slope = np.sign(np.diff(np.log(fine[np.isfinite(fine)])))
+    assert np.count_nonzero(slope[1:] != slope[:-1]) <= 5
+
+
+def test_the_summary_says_what_each_curves_fraction_means(tmp_path):
+    code, _, err, _ = run_main("diagram", ROOT / "alloys" / "aisi-4140-crmo.toml", "--out", tmp_path, "--points", "40")
+    assert code == 0, err
+    meaning = json.loads((tmp_path / "aisi-4140-crmo-summary.json").read_text())["fraction_meaning"]
+    assert set(meaning) == {"ferrite", "pearlite", "bainite", "total"}
+    assert "share of the austenite that has become ferrite" in meaning["ferrite"]
+    assert "all products together" in meaning["total"]
+    physical = isokin.ttt(isokin.load_alloy(ROOT / "alloys" / "brackwater-ba42-precipitation.toml"), points=20)
+    assert "own completion" in physical.fraction_meanings["precipitate"]

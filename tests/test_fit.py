@@ -125,3 +125,47 @@ def test_the_demo_fit_never_overwrites_its_input(tmp_path):
     data, _ = read_measurements(demo)
     residual = np.log(F.model_times(fitted, data) / data.time_s)
     assert np.sqrt(np.mean(residual**2)) < 0.1  # the diagram passes through the measurements
+
+
+def test_a_calibration_transfers_to_another_heat_by_the_models_own_composition_terms(tmp_path):
+    # Reference grade A (the shipped 4140) calibrated on curves made with known factors; the
+    # calibrated file applied to A reproduces A's fitted curves, and applied to another heat B
+    # moves B's curves by the same factors: t_B,cal / t_A,cal = t_B / t_A (the model's own ratio).
+    data = synthetic(STEEL, {"bainite.factor": 2.0}, 0.0, 0, product="bainite")
+    data_f = synthetic(STEEL, {"ferrite.factor": 0.6}, 0.0, 1, temperatures=(650.0, 680.0), product="ferrite")
+    rows = ["temperature_C,time_s,fraction,product"]
+    for d in (data, data_f):
+        rows += [f"{T - 273.15:.6g},{float(t)!r},{float(x)!r},{p}"
+                 for T, t, x, p in zip(d.temperature_K, d.time_s, d.fraction, d.product)]
+    (tmp_path / "a.csv").write_text("\n".join(rows) + "\n")
+    code, _, err, _ = run_main("fit", tmp_path / "a.csv", "--alloy", ROOT / "alloys" / "aisi-4140-crmo.toml",
+                               "--out", tmp_path / "a-cal.toml", "--free", "bainite.factor", "--free", "ferrite.factor")
+    assert code == 0, err
+    calibration = isokin.load_calibration(tmp_path / "a-cal.toml")
+    assert calibration.kinetics_model == STEEL.options["kinetics_model"]
+    a = {k: float(v) for k, v in STEEL.inputs["composition"].items()}
+    b = {**a, "C": 0.30, "Mn": 1.1, "Mo": 0.05}
+    T = np.linspace(350.0, 700.0, 36)
+    times = {}
+    for label, composition, cal in (("A", a, None), ("A cal", a, calibration), ("B", b, None), ("B cal", b, calibration)):
+        result = isokin.ttt(isokin.steel(composition, 7.0, calibration=cal), temperatures_C=T)
+        times[label] = {p: result.times_s[p] for p in ("ferrite", "bainite")}
+    for p, factor in (("ferrite", 0.6), ("bainite", 2.0)):
+        ok = np.isfinite(times["A"][p]) & np.isfinite(times["B"][p])
+        np.testing.assert_allclose(times["A cal"][p][ok] / times["A"][p][ok], factor, rtol=1e-6)
+        np.testing.assert_allclose(times["B cal"][p][ok] / times["A cal"][p][ok], times["B"][p][ok] / times["A"][p][ok],
+                                   rtol=1e-6)
+    # the command line applies it to an analysis, and the summary records both heats
+    code, _, err, _ = run_main("diagram", "--composition", "C=0.30,Mn=1.1,Si=0.25,Cr=0.95,Mo=0.05", "--calibration",
+                               tmp_path / "a-cal.toml", "--name", "heat B", "--out", tmp_path / "b")
+    assert code == 0, err
+    summary = json.loads((tmp_path / "b" / "heat-b-summary.json").read_text())
+    record = summary["model_choices"]["calibration"]
+    assert record["reference_composition"]["C"] == pytest.approx(0.405) and record["data_sha256"]
+    assert summary["inputs"]["composition"]["C"] == pytest.approx(0.30)
+    assert summary["model_choices"]["kinetics"]["bainite"]["factor"] == pytest.approx(2.0, rel=1e-6)
+    code, _, err, _ = run_main("diagram", ROOT / "alloys" / "aisi-4140-crmo.toml", "--calibration", tmp_path / "a-cal.toml")
+    assert refused(code, err, "--calibration")
+    code, _, err, _ = run_main("diagram", "--composition", "C=0.3,Mn=1", "--calibration", ROOT / "alloys" /
+                               "aisi-4140-crmo.toml")
+    assert code == 2 and "no [calibration] record" in err

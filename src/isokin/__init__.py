@@ -16,6 +16,8 @@ __version__ = "0.2.0"
 _EXPORTS = {
     "load_alloy": "isokin.io.alloy_file",
     "steel": "isokin.products.steel",
+    "Calibration": "isokin.products.steel",
+    "load_calibration": "isokin.io.steel_file",
     "Alloy": "isokin.products.alloy",
     "ttt": "isokin.compute.ttt",
     "hold": "isokin.compute.decomposition",

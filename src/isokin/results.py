@@ -76,6 +76,11 @@ class TTTResult:
     regions : tuple of (str, float, float or None, str)
         Phase-region labels of a single alloy: text, temperature K, time s (None: along
         the whole axis) and alignment, placed from the computed curves.
+    fraction_meanings : dict of str to str
+        What a fraction X of each curve is, in plain words.
+    valid : ndarray of bool or None
+        For a batch, the members that could be computed (the others have no curves); None
+        where all could.
     """
 
     alloy: str
@@ -95,6 +100,8 @@ class TTTResult:
     inputs: dict = field(default_factory=dict)
     provenance: dict = field(default_factory=dict)
     regions: tuple = ()
+    fraction_meanings: dict = field(default_factory=dict)
+    valid: object = None
 
     @property
     def temperatures_C(self):
@@ -131,6 +138,7 @@ class TTTResult:
             warnings=self.warnings,
             inputs=self.inputs,
             provenance=self.provenance,
+            fraction_meanings=self.fraction_meanings,
         )
 
     @property

@@ -146,7 +146,7 @@ class Decomposition:
             for p in self.alloy.products:
                 mine = alone & (self.caps[p.name] > 0.0)
                 if mine.any():
-                    t = self.delays[p.name] + p.time_to_fraction(self.T, np.broadcast_to(share, shape))
+                    t = self.delays[p.name] + p.time_to_fraction(self.T, share)
                     np.copyto(result, np.broadcast_to(t, shape), where=mine)
         several = np.broadcast_to(active > 1, shape)
         if not several.any():
@@ -157,6 +157,8 @@ class Decomposition:
         lo = np.full(shape, np.inf)
         for p in self.alloy.products:
             cap, start = self.caps[p.name], self.delays[p.name]
+            if not np.any(several & (cap > 0.0)):
+                continue
             with np.errstate(divide="ignore", invalid="ignore"):
                 need_hi = np.where(cap > 0.0, target / cap, np.inf)
                 need_lo = np.where(cap > 0.0, target / (np.maximum(active, 1.0) * cap), np.inf)
@@ -167,22 +169,26 @@ class Decomposition:
         solvable = several & (W > 0.0) & np.isfinite(hi) & np.isfinite(lo)
         lo = np.where(solvable, np.maximum(lo, 1e-300), 1.0)
         hi = np.where(solvable, np.maximum(hi, lo), 1.0)
-        root = _illinois(self._total_at(shape), np.log(lo).ravel(), np.log(hi).ravel(), target.ravel(),
-                         np.flatnonzero(solvable)).reshape(shape)
+        idx = np.flatnonzero(solvable)
+        root = _illinois(self._total_at(shape, idx), np.log(lo).ravel(), np.log(hi).ravel(), target.ravel(),
+                         idx).reshape(shape)
         np.copyto(result, np.exp(root), where=solvable)
         return result
 
-    def _total_at(self, shape):
-        """total(t, idx): the total at times t of the points idx of the flattened shape.
+    def _total_at(self, shape, idx):
+        """total(t, idx): the total at times t of the points idx of the flattened shape, from
+        the products that can form at some of those points.
 
-        Where every product is separable with a reaction term shared by the batch (Li's
-        S(X); JMAK with one exponent), X = S^-1(t / F(T)) with F computed once, so only the
-        points still being solved are evaluated; otherwise the whole array is.
+        Where every such product is separable with a reaction term shared by the batch (Li's
+        S(X); Kirkaldy & Venugopalan's ferrite and pearlite; JMAK with one exponent),
+        X = S^-1(t / F(T)) with F computed once, so only the points still being solved are
+        evaluated; otherwise the whole array is.
         """
-        products = self.alloy.products
-        if all(p.separable and np.ndim(getattr(p, "exponent", 0.0)) == 0 for p in products):
+        involved = [p for p in self.alloy.products
+                    if np.any(np.broadcast_to(self.caps[p.name], shape).ravel()[idx] > 0.0)]
+        if all(p.separable and np.ndim(getattr(p, "exponent", 0.0)) == 0 for p in involved):
             parts = []
-            for p in products:
+            for p in involved:
                 factor = np.broadcast_to(self.factors[p.name], shape).ravel()
                 cap = np.broadcast_to(self.caps[p.name], shape).ravel()
                 start = np.broadcast_to(self.delays[p.name], shape).ravel()

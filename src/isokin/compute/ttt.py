@@ -13,7 +13,7 @@ from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..products.base import writeable
 from ..results import OVERALL, Noses, TTTResult
-from .decomposition import OverallCurve, ProductCurve, SharedDecomposition, region_labels
+from .decomposition import WAIT_FRACTION, OverallCurve, ProductCurve, SharedDecomposition, region_labels
 from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
 
 #: A nose faster than this (s) means an input slip, not a transformation: said in a warning.
@@ -187,6 +187,11 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         if not alloy.batch_shape:
             regions = region_labels(alloy, grid, times[OVERALL], noses[OVERALL], noses)
     warnings = list(alloy.warnings)
+    meanings = {p.name: fraction_meaning(alloy, p, within) for p in alloy.products}
+    if with_whole:
+        meanings[OVERALL] = ("share of the austenite that can transform at the hold temperature that has transformed, "
+                             "all products together" if alloy.martensite is not None else
+                             "share of what can transform at the hold temperature that has, all products together")
     fastest = min((float(np.min(n.time_s)) for n in noses.values()), default=np.inf)
     if fastest < IMPLAUSIBLY_FAST_S:
         warnings.append(f"the fastest curve reaches its fraction in {fastest:.2g} s, faster than any diffusional "
@@ -209,4 +214,16 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         inputs=alloy.inputs,
         provenance=dict(alloy.provenance),
         regions=regions,
+        fraction_meanings=meanings,
+        valid=alloy.valid,
     )
+
+
+def fraction_meaning(alloy, product, within):
+    """What a fraction X of a product's curve is, in plain words."""
+    if not within:
+        return f"share of its own completion: {product.name} alone from all of the {alloy.parent}, as its model states it"
+    waits = alloy.sequence.get(product.name)
+    after = f", counted from when {waits} has reached {WAIT_FRACTION * 100:g} % of its own share" if waits else ""
+    return (f"share of the {alloy.parent} that has become {product.name}, by itself within the decomposition{after}; "
+            "a curve stops where its equilibrium share is smaller")

@@ -155,7 +155,7 @@ def summary(result: TTTResult) -> dict:
         "temperature_range_C": [_temperature_C(t) for t in result.temperatures_K[[0, -1]]],
         "points": int(result.temperatures_K.size),
         "practical_horizon_s": PRACTICAL_HORIZON_S,
-        "fraction_meaning": "share of each product's own completion at the hold temperature",
+        "fraction_meaning": dict(result.fraction_meanings),
         "critical_temperatures": lines,
         "products": products,
         "model_choices": result.provenance,

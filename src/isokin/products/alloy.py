@@ -52,8 +52,8 @@ class Alloy:
         What builds the alloy again from its composition (a steel's grain size, methods,
         kinetic model and coefficients, calibration), for sampling and fitting.
     valid : ndarray of bool or None
-        For a batch, the members that could be computed (the others form nothing and their
-        lines are NaN); None where all could.
+        For a batch, the members whose diagram could be computed (the others form nothing;
+        a line is NaN where its correlation gives a value that cannot be); None where all could.
     """
 
     name: str

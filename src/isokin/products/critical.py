@@ -50,8 +50,8 @@ BS_METHODS = {
     "li_1998": (bs_li_1998, "Li et al. (1998)", "Li et al. (1998), Bs"),
 }
 #: The defaults, chosen by the shared open measurements (``benchmarks/validate.py``): van
-#: Bohemen's Ms has the smallest error at every carbon level above 0.2 % (about 2,900
-#: records), his Bs the smallest over the 154 measured Bs.
+#: Bohemen's Ms has the smallest error over all about 2,900 records and by far the smallest
+#: above 0.6 % C, where the linear forms run low; his Bs the smallest over the 154 measured Bs.
 DEFAULT_MS_METHOD = "van_bohemen_2012"
 DEFAULT_BS_METHOD = "van_bohemen_2012"
 #: Andrews' product-form Ms is a parabola in carbon with its minimum near 453 / (2 x 217) %.

@@ -248,7 +248,7 @@ def _lines(critical, martensite):
              "M50": martensite.temperature_for_fraction(0.5), "M90": martensite.temperature_for_fraction(0.9)}
     warnings = []
     for key in ("M50", "M90"):
-        never = (lines[key] <= 0.0) & (critical.ms_K > 0.0)
+        never = (lines[key] <= 0.0) & (critical.ms_K > 0.0) & valid
         if np.any(never):
             warnings.append(f"{key} by Koistinen-Marburger lies below absolute zero{heats_text(never)}: that much "
                             "martensite is never reached on cooling, and the line is left out")
@@ -335,13 +335,14 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
     batch = np.broadcast_shapes(batch, *shapes)
     grain = np.broadcast_to(grain, batch)
     products = steel_products(comp, grain, critical, model, coefficients)
-    martensite = Martensite(critical.ms_K, ms_method=MS_METHODS[ms_method][1])
+    martensite = Martensite(np.where(critical.valid, critical.ms_K, 0.0), ms_method=MS_METHODS[ms_method][1])
     lines, warnings = _lines(critical, martensite)
     valid = critical.valid & np.all([p.valid for p in products], axis=0)
     if np.any(~valid & critical.valid):
         no_scale = ~valid & critical.valid
-        text = (f"the {model.label} kinetics has no time scale for this analysis (a factor that is zero without Mn, "
-                "Ni, Cr or Mo); choose kinetics_model = 'li_1998'")
+        text = (f"the {model.label} kinetics has no time scale for this analysis (its ferrite factor is zero without "
+                "Mn, Ni, Cr and Mo): give the Mn of the heat, or choose the Li et al. (1998) kinetics "
+                "(kinetics_model = 'li_1998', --kinetics li_1998)")
         if not batch:
             raise InputError(None, "composition", text)
         warnings.append(text + f"; such heats are left out{heats_text(no_scale)}")

@@ -306,6 +306,7 @@ class SteelProduct:
         self.separable = retardation.size == 0 or bool(np.all(retardation == retardation.flat[0]))
         self._term = reaction_terms.reaction_term(self._p, float(retardation.flat[0]) if retardation.size else 0.0) \
             if self.separable else None
+        self._S_memo = {}
 
     @property
     def batch_shape(self):
@@ -366,10 +367,24 @@ class SteelProduct:
     def reaction_term_inverse(self, S):
         return self._term.inverse(S)
 
+    #: Distinct fraction arrays whose S(X) a batch with its own retardation per member keeps:
+    #: a diagram asks for the same few fractions on every block of temperatures.
+    _S_MEMORY = 16
+
     def _S(self, X, ndim):
         if self.separable:
             return np.asarray(self._term(X))
-        return reaction_terms.values(X, self._p, self._retardation(ndim))
+        small = X.size <= 64
+        key = (ndim, X.shape, X.tobytes()) if small else None
+        if key in self._S_memo:
+            return self._S_memo[key]
+        S = reaction_terms.values(X, self._p, self._retardation(ndim))
+        if small:
+            if len(self._S_memo) >= self._S_MEMORY:
+                self._S_memo.pop(next(iter(self._S_memo)))
+            S.flags.writeable = False  # shared by later calls
+            self._S_memo[key] = S
+        return S
 
     def time_to_fraction(self, T_K, X):
         """Seconds of isothermal hold at T_K to reach fraction X of this product.
@@ -408,7 +423,7 @@ class SteelProduct:
             S = np.where(forms & (t > 0.0), np.where(np.isnan(S), complete, S), 0.0)  # inf * 0: an infinite hold
             return self._term.inverse(np.minimum(S, complete))
         c = self._retardation(q)
-        complete = reaction_terms.values(np.ones(c.shape), self._p, c)
+        complete = self._S(np.ones((1,) * q), q)
         S = np.where(forms & (t > 0.0), np.where(np.isnan(S), complete, S), 0.0)
         return reaction_terms.inverse_values(np.minimum(S, complete), self._p, c)
 

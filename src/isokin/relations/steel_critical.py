@@ -420,8 +420,8 @@ def ms_van_bohemen_2012(composition: Composition):
     The exponential carbon term flattens as carbon rises, as measured Ms does; the linear
     formulas run ever lower past about 0.6 % C. Validity (from memory): low-alloy steels to
     about 2 % C. Coefficients from memory; measured against the shared open Ms data (about
-    2,900 records) they give the smallest error of the correlations here at every carbon
-    level above 0.2 % (``benchmarks/validate.py``), which a wrong coefficient would not.
+    2,900 records) they give the smallest error of the correlations here overall and by far
+    the smallest above 0.6 % C (``benchmarks/validate.py``), which a wrong coefficient would not.
 
     Reference: S. M. C. van Bohemen, "Bainite and martensite start temperature calculated
     with exponential carbon dependence", Mater. Sci. Technol. 28 (2012) 487-495.
