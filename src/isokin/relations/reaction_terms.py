@@ -25,6 +25,11 @@ the exact slope, in both directions: about 1e-14, with no quadrature or root fin
 value. For an array of c (a batch of steels, each with its own), each value is integrated
 directly and inverted by safeguarded Newton steps.
 
+Precision: about 1e-14 relative where c = 0. With a retardation, just above X = 1/2 the
+value is L(1/2) + G(1/2) - G(1 - X), the difference of two integrals that grow as exp(c):
+digits are lost as c grows (3e-13 relative at c = 4, 6e-11 at c = 12, 1e-9 at c = 16, the
+tests hold these bounds), far below anything a transformation time can mean.
+
 References: J. S. Kirkaldy and D. Venugopalan, "Prediction of microstructure and
 hardenability in low alloy steels", in Phase Transformations in Ferrous Alloys, A. R. Marder
 and J. I. Goldstein (eds.), TMS-AIME (1984) 125-148; M. V. Li, D. V. Niebuhr, L. L. Meekisho
@@ -329,7 +334,7 @@ def inverse_values(S, p, c=0.0):
         lo[active] = np.where(f <= 0.0, wa, lo[active])
         hi[active] = np.where(f >= 0.0, wa, hi[active])
         step = wa - f * _by_piece(_dw_ds, y, ua, p, ca)
-        inside = (step > lo[active]) & (step < hi[active])
+        inside = (step >= lo[active]) & (step <= hi[active])  # a converged step lands on an end
         w_new = np.where(inside, step, 0.5 * (lo[active] + hi[active]))
         w[active] = w_new
         active = active[(np.abs(w_new - wa) > 1e-15 * top) & (f != 0.0)]
