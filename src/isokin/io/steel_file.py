@@ -6,16 +6,14 @@ override its coefficients of ferrite, pearlite or bainite.
 
 from __future__ import annotations
 
+import difflib
 from pathlib import Path
 
 from ..errors import InputError
-import difflib
-
 from ..products.critical import BS_METHODS, MS_METHODS
 from ..products.steel import (
     DEFAULT_KINETICS,
     GRAIN_SIZE_RANGE,
-    KINETIC_KEYS,
     KINETICS_MODELS,
     TERM_PREFIXES,
     Calibration,
@@ -23,7 +21,8 @@ from ..products.steel import (
 )
 from ..products.steel_kinetics import PRODUCT_SIGN, SQRT_PREFIX
 from ..relations.composition import ELEMENTS
-from .schema import Key, read_table
+from .alloy_file import load_alloy
+from .schema import Key, parse_toml, read_table
 
 TABLES = ("composition", "steel", "composition_range")
 
@@ -52,7 +51,6 @@ _SCALARS = {
     "retardation_constant": Key(float, low=-100.0, high=100.0),
     "factor": Key(float, low=0.0, low_open=True, high=1e12),
 }
-assert set(_SCALARS) == set(KINETIC_KEYS)
 KINETICS_KEYS = {**_SCALARS, **{term: _TERM for term in _TERMS}}
 
 
@@ -138,11 +136,6 @@ def load_calibration(path) -> Calibration:
     """The fitted kinetics of a calibrated steel file (one ``isokin fit`` wrote), to apply to
     another analysis: its kinetic model, its ``[steel.kinetics]`` overrides and the record of
     the fit with the reference analysis and the file it came from."""
-    from pathlib import Path
-
-    from .alloy_file import load_alloy
-    from .schema import parse_toml
-
     path = Path(path)
     alloy = load_alloy(path)  # checks every table as an alloy file
     data = parse_toml(path)
