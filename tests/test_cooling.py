@@ -37,7 +37,7 @@ def test_a_drop_and_hold_path_reproduces_the_isothermal_hold():
         t = np.concatenate([[0.0], np.geomspace(1e-3, 1e5, 4000)])
         T = np.full(t.shape, celsius_to_kelvin(hold_C))
         T[0] = celsius_to_kelvin(800.0)
-        times, _, fractions = along(steel, [CoolingPath(t, T, "drop")])
+        times, _, fractions, _ = along(steel, [CoolingPath(t, T, "drop")])
         for check in (30.0, 300.0, 3000.0, 30000.0):
             k = int(np.searchsorted(times[0], check))
             held = isokin.hold(steel, hold_C, times[0, k], milestones=False)
@@ -50,7 +50,7 @@ def _eutectoid_pearlite_along(rate_K_s):
     the path's times and fractions, the additivity 1 % start, and T(t) of the path."""
     steel = isokin.steel(EUTECTOID, 6.0)
     path = constant_rate(rate_K_s, 720.0)
-    t, T, fractions = along(steel, [path])
+    t, T, fractions, _ = along(steel, [path])
     t_start, _ = first_reached(t, T, fractions["pearlite"], 0.01)
     return (steel.products[1], t, fractions, t_start,
             lambda s: float(np.interp(s, path.time_s, path.temperature_K)))

@@ -228,6 +228,9 @@ class HoldResult:
         transform at that temperature (``transformable``); ``inf`` where never.
     transformable : ndarray
         Share of the part that can transform at each temperature, given time.
+    austenite_carbon, martensite_start_K : ndarray or None
+        For steels: the carbon (mass %) of the austenite left at the end of each hold, and
+        its Ms (K), from which the quench forms martensite.
     warnings : tuple of str
     inputs, provenance : dict
     """
@@ -240,16 +243,23 @@ class HoldResult:
     milestone_fractions: np.ndarray
     milestones_s: dict
     transformable: np.ndarray
+    austenite_carbon: object = None
+    martensite_start_K: object = None
     warnings: tuple = ()
     inputs: dict = field(default_factory=dict)
     provenance: dict = field(default_factory=dict)
 
     def to_frame(self):
-        """Wide pandas table: temperature_C, time_s and one column per phase (shares of the part)."""
+        """Wide pandas table: temperature_C, time_s, one column per phase (shares of the part)
+        and, for steels, the carbon and Ms of the austenite left at the end of the hold."""
         import pandas as pd
 
+        shape = np.shape(self.times_s)
         columns = {"temperature_C": np.ravel(self.temperatures_C), "time_s": np.ravel(self.times_s)}
-        columns.update({name: np.ravel(np.broadcast_to(v, np.shape(self.times_s))) for name, v in self.fractions.items()})
+        columns.update({name: np.ravel(np.broadcast_to(v, shape)) for name, v in self.fractions.items()})
+        if self.austenite_carbon is not None:
+            columns["austenite_carbon_mass_percent"] = np.ravel(np.broadcast_to(self.austenite_carbon, shape))
+            columns["austenite_Ms_C"] = np.ravel(np.broadcast_to(kelvin_to_celsius(self.martensite_start_K), shape))
         return pd.DataFrame(columns)
 
 
@@ -260,7 +270,9 @@ class CoolingResult:
     ``fractions``: phase -> (P, M) share of the part along each path (they sum to 1);
     ``final``: phase -> (P,) at the end; ``start_time_s``/``start_temperature_K``: product
     -> (P,) where it first makes up 1 % of the part (NaN: never); ``hardness_HV`` and
-    ``rate_at_700_C_per_h``: (P,) for steels, None otherwise.
+    ``rate_at_700_C_per_h``: (P,) for steels, None otherwise; ``austenite_carbon`` and
+    ``martensite_start_K``: (P,) for steels, the carbon (mass %) of the austenite left when
+    martensite forms and its Ms (K).
     """
 
     alloy: str
@@ -277,6 +289,8 @@ class CoolingResult:
     warnings: tuple = ()
     inputs: dict = field(default_factory=dict)
     provenance: dict = field(default_factory=dict)
+    austenite_carbon: object = None
+    martensite_start_K: object = None
 
     def columns(self) -> dict:
         """The phases along the paths as columns: path, time_s, temperature_C, one per phase."""

@@ -483,10 +483,13 @@ def hold(
     typer.echo(f"{alloy.name}: hold at {_in_units(temperature_c, units)}, then quench to "
                f"{_in_units(result.quench_to_C, units)}")
     names = list(result.fractions)
-    typer.echo(f"  {'hold time':>10}  " + "  ".join(f"{n:>{max(len(n), 7)}}" for n in names))
+    carbon = result.austenite_carbon is not None
+    typer.echo(f"  {'hold time':>10}  " + "  ".join(f"{n:>{max(len(n), 7)}}" for n in names)
+               + ("   austenite left: C, Ms" if carbon else ""))
     for k, t in enumerate(result.times_s):
         typer.echo(f"  {format_duration(float(t)):>10}  " + "  ".join(
-            f"{float(result.fractions[n][k]) * 100:>{max(len(n), 7) - 2}.1f} %" for n in names))
+            f"{float(result.fractions[n][k]) * 100:>{max(len(n), 7) - 2}.1f} %" for n in names)
+            + (f"   {_austenite_left(result, k, units)}" if carbon else ""))
     typer.echo(f"  times at {_in_units(temperature_c, units)} to 1 %, 50 %, 99 % (products: of their own completion; "
                f"total: of the {float(result.transformable[0]) * 100:.0f} % that can transform here)")
     for product, marks in result.milestones_s.items():
@@ -508,13 +511,21 @@ def _rates(text: Optional[str]):
     return values
 
 
+def _austenite_left(result, index, units):
+    """'0.57 % C, Ms 269 °C': the austenite left at the end of a hold or path."""
+    carbon, start = result.austenite_carbon.ravel()[index], result.martensite_start_K.ravel()[index]
+    return f"{float(carbon):.2f} % C, Ms {_in_units(float(kelvin_to_celsius(start)), units)}"
+
+
 def _final_table(labels, result, units):
     """Final phases, hardness and where each product starts, one row per path."""
     from ..relations.hardness import hrc_from_hv_astm_e140
 
     names = list(result.final)
     head = f"  {'cooling':>18}  " + "  ".join(f"{n:>{max(len(n), 7)}}" for n in names)
-    typer.echo(head + ("     HV    HRC" if result.hardness_HV is not None else ""))
+    carbon = result.austenite_carbon is not None
+    typer.echo(head + ("     HV    HRC" if result.hardness_HV is not None else "")
+               + ("   austenite left: C, Ms" if carbon else ""))
     for k, label in enumerate(labels):
         row = f"  {label:>18}  " + "  ".join(f"{float(result.final[n][k]) * 100:>{max(len(n), 7) - 2}.1f} %"
                                                for n in names)
@@ -522,7 +533,7 @@ def _final_table(labels, result, units):
             hv = float(result.hardness_HV[k])
             hrc = float(hrc_from_hv_astm_e140(hv))
             row += f"  {hv:>5.0f}  " + (f"{hrc:>5.1f}" if math.isfinite(hrc) else "    -")
-        typer.echo(row)
+        typer.echo(row + (f"   {_austenite_left(result, k, units)}" if carbon else ""))
 
 
 @app.command()

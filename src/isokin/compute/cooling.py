@@ -173,7 +173,8 @@ def _running(values, op):
 
 
 def along(alloy, paths):
-    """Fractions of every phase along each path: (t, T, dict phase -> (P, M) array)."""
+    """Fractions of every phase along each path: (t, T, dict phase -> (P, M) array, carbon),
+    with ``carbon`` the (P, M) carbon of the austenite left (mass %, steels; else None)."""
     if alloy.batch_shape:
         raise InputError(None, "alloy", "continuous cooling takes one alloy, not a batch")
     t, T = _stack(paths)
@@ -225,13 +226,17 @@ def along(alloy, paths):
     for p in products:
         fractions[p.name] = raw[p.name] * scale
     left = 1.0 - total
+    carbon = None
     if alloy.martensite is not None:
-        km = alloy.martensite.fraction(_running(T, np.minimum))
+        # the austenite's carbon is settled before martensite forms: no product forms below Ms
+        if alloy.carbon_balance is not None:
+            carbon = alloy.carbon_balance.austenite_carbon(fractions, T.ndim)
+        km = alloy.martensite.fraction(_running(T, np.minimum), carbon)
         fractions[alloy.martensite.name] = left * km
         fractions[f"retained {alloy.parent}"] = left * (1.0 - km)
     else:
         fractions[alloy.parent] = left
-    return t, T, fractions
+    return t, T, fractions, carbon
 
 
 def _equilibrium(product, T):
@@ -251,18 +256,16 @@ def _sequence_order(alloy):
     return ordered
 
 
-def hardness(alloy, paths, final):
-    """Vickers hardness at the end of each path (Maynier et al. 1978 mixture, retained
-    austenite not counted) and the rate at 700 °C it was taken at, °C/h; None where the
-    alloy is not a steel."""
-    from ..relations.composition import Composition
-    from ..relations.hardness import hardness_mixture_maynier_1978
+def hardness(alloy, paths, final, carbon):
+    """Vickers hardness at the end of each path (Maynier et al. 1978 for bainite and ferrite +
+    pearlite at the path's rate at 700 °C, ASTM A255 for martensite of the austenite's carbon,
+    retained austenite counted soft) and that rate, °C/h; None where the alloy is not a steel."""
+    from ..relations.hardness import hardness_of_mixture
 
     if alloy.model != "steel":
         return None
-    composition = Composition.from_dict({k: float(v) for k, v in alloy.inputs["composition"].items()})
     rate = np.array([p.rate_at_C_per_h() for p in paths])
-    return hardness_mixture_maynier_1978(composition, final, rate), rate
+    return hardness_of_mixture(alloy.composition, final, rate, carbon), rate
 
 
 def first_reached(t, T, values, level):
@@ -321,10 +324,10 @@ def cool(alloy, path):
     from ..results import CoolingResult
 
     paths = _path_list(path)
-    t, T, fractions = along(alloy, paths)
+    t, T, fractions, carbon = along(alloy, paths)
     final = {name: v[:, -1] for name, v in fractions.items()}
     starts = {p.name: first_reached(t, T, fractions[p.name], START_SHARE) for p in alloy.products}
-    hv = hardness(alloy, paths, final)
+    hv = hardness(alloy, paths, final, None if carbon is None else carbon[:, -1])
     warnings = list(alloy.warnings) + [w for p in paths for w in p.warnings]
     return CoolingResult(
         alloy=alloy.name, labels=tuple(p.label for p in paths), time_s=t, temperature_K=T, fractions=fractions,
@@ -332,7 +335,9 @@ def cool(alloy, path):
         start_temperature_K={k: v[1] for k, v in starts.items()},
         hardness_HV=None if hv is None else hv[0], rate_at_700_C_per_h=None if hv is None else hv[1],
         critical_K=dict(alloy.critical_K), warnings=tuple(dict.fromkeys(warnings)), inputs=alloy.inputs,
-        provenance={**alloy.provenance, "additivity": ADDITIVITY_NOTE})
+        provenance={**alloy.provenance, "additivity": ADDITIVITY_NOTE},
+        austenite_carbon=None if carbon is None else carbon[:, -1],
+        martensite_start_K=None if carbon is None else alloy.martensite.start_for_carbon(carbon[:, -1]))
 
 
 #: What the record says about the method.

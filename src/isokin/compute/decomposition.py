@@ -413,7 +413,10 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
     HoldResult
         ``.fractions``: phase name -> share of the part (they sum to 1), of the broadcast
         shape of temperature and time; ``.milestones_s``: the times to 1, 50 and 99 % of
-        each product and of the whole decomposition at each temperature.
+        each product and of the whole decomposition at each temperature; for steels
+        ``.austenite_carbon`` (mass %) and ``.martensite_start_K``: the carbon of the
+        austenite left at the end of the hold (ferrite, and the ferrite of carbide-free
+        bainite, reject theirs into it) and its Ms, from which the quench forms martensite.
 
     Examples
     --------
@@ -440,8 +443,12 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
     held = Decomposition(alloy, T)
     fractions = dict(held.shares(t))
     left = np.maximum(1.0 - held.total(t), 0.0)
+    carbon = start = None
     if alloy.martensite is not None:
-        martensite = left * alloy.martensite.fraction(np.minimum(T, celsius_to_kelvin(quench_to_C)))
+        if alloy.carbon_balance is not None:
+            carbon = alloy.carbon_balance.austenite_carbon(fractions, T.ndim)
+        start = alloy.martensite.start_for_carbon(carbon) if carbon is not None else None
+        martensite = left * alloy.martensite.fraction(np.minimum(T, celsius_to_kelvin(quench_to_C)), carbon)
         fractions[alloy.martensite.name] = martensite
         fractions[f"retained {alloy.parent}"] = left - martensite
     else:
@@ -455,8 +462,8 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
             times_to[OVERALL] = Decomposition(alloy, T_marks).time_to_total(marks)
     return HoldResult(alloy=alloy.name, temperatures_C=T_C, times_s=t, quench_to_C=float(quench_to_C),
                       fractions=fractions, milestone_fractions=marks, milestones_s=times_to,
-                      transformable=held.transformable, warnings=tuple(alloy.warnings), inputs=alloy.inputs,
-                      provenance=dict(alloy.provenance))
+                      transformable=held.transformable, austenite_carbon=carbon, martensite_start_K=start,
+                      warnings=tuple(alloy.warnings), inputs=alloy.inputs, provenance=dict(alloy.provenance))
 
 
 def _illinois(total, a, b, target, idx):

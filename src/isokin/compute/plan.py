@@ -125,18 +125,18 @@ def _start_C(alloy, austenitizing_C):
 
 
 def _microstructure(alloy, T_C, hold_s):
+    """The phases after the hold and the quench, and the carbon of the austenite the martensite formed from."""
     after = hold(alloy, T_C, hold_s, milestones=False)
-    return {name: np.asarray(v, dtype=float) for name, v in after.fractions.items()}
+    return {name: np.asarray(v, dtype=float) for name, v in after.fractions.items()}, after.austenite_carbon
 
 
-def _hardness(alloy, fractions, rate_K_s):
-    """HV of the structure after the hold and quench (Maynier et al. 1978 with the quench rate at 700 °C)."""
-    from ..relations.composition import Composition
-    from ..relations.hardness import hardness_mixture_maynier_1978
+def _hardness(alloy, fractions, rate_K_s, carbon):
+    """HV of the structure after the hold and quench (Maynier et al. 1978 for bainite and ferrite
+    + pearlite with the quench rate at 700 °C, ASTM A255 for martensite of the austenite's carbon)."""
+    from ..relations.hardness import hardness_of_mixture
 
-    c = Composition.from_dict({k: float(v) for k, v in alloy.inputs["composition"].items()})
     rate = np.nan_to_num(np.asarray(rate_K_s, dtype=float), nan=1.0) * 3600.0
-    return hardness_mixture_maynier_1978(c, fractions, rate)
+    return hardness_of_mixture(alloy.composition, fractions, rate, carbon)
 
 
 def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, safety=None, target_hv=None,
@@ -217,9 +217,9 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
 def _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C):
     T_C = kelvin_to_celsius(T)
     finite = np.where(np.isfinite(hold_s), hold_s, 1.0)
-    structure = _microstructure(alloy, T_C, finite)
+    structure, carbon = _microstructure(alloy, T_C, finite)
     rates = _required_rates(alloy, _start_C(alloy, austenitizing_C), T_C)
-    hv = _hardness(alloy, structure, rates)
+    hv = _hardness(alloy, structure, rates, carbon)
     return {"ferrite_pearlite_alone_1pct_s": start_soft, "required_rate_K_s": rates, "hardness_HV": hv,
             **{f"after_{name}": v for name, v in structure.items()}}
 
@@ -305,7 +305,7 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
     extra = {"transformable_share": transformable}
     if alloy.martensite is not None:
         finite = np.where(np.isfinite(hold_s), hold_s, 1.0)
-        extra.update({f"after_{k}": v for k, v in _microstructure(alloy, kelvin_to_celsius(T), finite).items()})
+        extra.update({f"after_{k}": v for k, v in _microstructure(alloy, kelvin_to_celsius(T), finite)[0].items()})
     rows = _rows(alloy, T, hold_s, ok, np.full(T.shape, "completion x safety vs the budget"), extra)
     edges = _edges(margin, T, ok) if 0 < ok.sum() < ok.size else []
     choice, reason = _choose(rows, ok, None, "fastest complete transformation")
@@ -345,7 +345,11 @@ def _choose(rows, ok, target_hv, default_reason, prefer="shortest"):
     if target_hv is not None and "hardness_HV" in rows:
         hv = rows["hardness_HV"][idx]
         k = idx[int(np.nanargmin(np.abs(hv - target_hv)))]
-        return int(k), f"hardness closest to the target {target_hv:g} HV"
+        if np.nanmin(hv) <= target_hv <= np.nanmax(hv):
+            return int(k), f"hardness closest to the target {target_hv:g} HV"
+        return int(k), (f"the target {target_hv:g} HV is out of reach in this window (it gives "
+                        f"{np.nanmin(hv):.0f} to {np.nanmax(hv):.0f} HV): the nearest, {rows['hardness_HV'][k]:.0f} HV, "
+                        f"is at {rows['temperature_C'][k]:.0f} °C")
     hold_s = rows["hold_time_s"][idx]
     k = idx[int(np.argmax(hold_s) if prefer == "longest" else np.argmin(hold_s))]
     return int(k), default_reason

@@ -190,14 +190,23 @@ def _seconds_or_none(value):
     return _finite_or_none(value) if float(value) <= PRACTICAL_HORIZON_S else None
 
 
+def _austenite_left(result, index) -> dict:
+    """The carbon and Ms of the austenite left (steels), for one hold or path."""
+    if result.austenite_carbon is None:
+        return {}
+    carbon, start = np.ravel(result.austenite_carbon)[index], np.ravel(result.martensite_start_K)[index]
+    return {"austenite_carbon_mass_percent": round(float(carbon), 5),
+            "austenite_Ms_C": _finite_or_none(kelvin_to_celsius(start), 5)}
+
+
 def hold_summary(result) -> dict:
     """The microstructure after each hold of one temperature, the milestones and the record."""
     temperatures = np.unique(np.ravel(result.temperatures_C))
     if temperatures.size != 1:
         raise ValueError("the hold summary describes holds at one temperature")
     holds = [{"time_s": float(t), "fractions": {name: round(float(v), 6) for name, v in zip(
-        result.fractions, (np.ravel(f)[k] for f in result.fractions.values()))}}
-        for k, t in enumerate(np.ravel(result.times_s))]
+        result.fractions, (np.ravel(f)[k] for f in result.fractions.values()))},
+        **_austenite_left(result, k)} for k, t in enumerate(np.ravel(result.times_s))]
     milestones = {
         name: {f"{x:g}": _seconds_or_none(t) for x, t in zip(result.milestone_fractions, np.ravel(times)[:len(
             result.milestone_fractions)])}
@@ -232,7 +241,8 @@ def _cooling_entries(result, index):
     entry = {"final_fractions": {name: round(float(v[index]), 6) for name, v in result.final.items()},
              "starts": {name: {"time_s": _finite_or_none(result.start_time_s[name][index]),
                                "temperature_C": _finite_or_none(kelvin_to_celsius(result.start_temperature_K[name][index]))}
-                        for name in result.start_time_s}}
+                        for name in result.start_time_s},
+             **_austenite_left(result, index)}
     if result.hardness_HV is not None:
         hv = float(result.hardness_HV[index])
         entry["hardness_HV"] = _finite_or_none(hv, 4)
@@ -241,9 +251,10 @@ def _cooling_entries(result, index):
     return entry
 
 
-_HARDNESS_NOTE = ("Maynier, Jungmann & Dollet (1978), coefficients from memory; volume-fraction mixture of martensite, "
-                  "bainite and ferrite + pearlite, retained austenite not counted; HRC by ASTM E140 rows typed from "
-                  "memory (null outside HRC 20-68)")
+_HARDNESS_NOTE = ("volume-fraction mixture: bainite and ferrite + pearlite by Maynier, Jungmann & Dollet (1978) at the "
+                  "path's rate at 700 C (coefficients from memory); martensite by ASTM A255's carbon polynomial of the "
+                  "austenite it formed from (from memory of the standard); retained austenite counted at 200 HV; HRC by "
+                  "ASTM E140 rows typed from memory (null outside HRC 20-68)")
 
 
 def cooling_summary(result) -> dict:

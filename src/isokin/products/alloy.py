@@ -51,6 +51,9 @@ class Alloy:
     options : dict
         What builds the alloy again from its composition (a steel's grain size, methods,
         kinetic model and coefficients, calibration), for sampling and fitting.
+    carbon_balance : CarbonBalance or None
+        How the carbon of the remaining austenite follows the products (steels): the
+        martensite of the final quench forms from austenite of that carbon.
     valid : ndarray of bool or None
         For a batch, the members whose diagram could be computed (the others form nothing;
         a line is NaN where its correlation gives a value that cannot be); None where all could.
@@ -72,6 +75,7 @@ class Alloy:
     parent: str = "untransformed"
     composition: object = None
     options: dict = field(default_factory=dict)
+    carbon_balance: object = None
     valid: object = None
 
     @property

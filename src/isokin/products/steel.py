@@ -25,8 +25,10 @@ from ..errors import InputError
 from ..relations.composition import ELEMENTS, Composition, range_warnings
 from ..relations.steel_critical import (
     CALIBRATED_RANGES,
+    FERRITE_CARBON_MASS_PERCENT,
     KOISTINEN_MARBURGER_ALPHA_PER_K,
     andrews_ae1_C,
+    austenite_carbon_mass_balance,
     andrews_ae3_without_carbon_C,
     eutectoid_carbon_andrews_1965,
     lever_rule_ferrite_fraction,
@@ -85,6 +87,54 @@ class LeverRuleFerrite:
         T, q = as_query(T_K)
         arrays = [batch_leading(a, self._batch_ndim, q) for a in self._arrays]
         return lever_rule_ferrite_fraction(kelvin_to_celsius(T), *arrays)
+
+
+#: Silicon plus aluminium (mass %) from which bainite forms without carbides, its ferrite
+#: rejecting carbon into the austenite as proeutectoid ferrite does: about 1.5 % suppresses
+#: cementite in bainite (common practice, from memory: the carbide-free bainitic and TRIP
+#: steels carry 1.5 % Si or more).
+CARBIDE_FREE_SI_AL = 1.5
+
+
+@dataclass(frozen=True)
+class CarbonBalance:
+    """The carbon of the austenite left as products form, by mass balance (one steel or a batch).
+
+    Ferrite rejects its carbon into the austenite (it keeps ``ferrite_carbon``); so does the
+    ferrite of carbide-free bainite (``carbide_free``: Si + Al at least
+    :data:`CARBIDE_FREE_SI_AL`). Pearlite and bainite with carbides take the austenite's own
+    carbon and leave it unchanged. The incomplete bainite reaction of silicon-rich steels
+    (which stops where the austenite reaches the T0 carbon) is not modelled.
+    """
+
+    carbon: np.ndarray
+    carbide_free: np.ndarray
+    ferrite_carbon: float = FERRITE_CARBON_MASS_PERCENT
+    method: str = ("mass balance: ferrite (and the ferrite of carbide-free bainite, Si + Al >= 1.5 %) keeps 0.02 % C "
+                   "and rejects the rest into the austenite; pearlite and bainite with carbides leave it unchanged; "
+                   "the incomplete bainite reaction (T0 limit) is not modelled")
+
+    def austenite_carbon(self, shares, ndim):
+        """Carbon (mass %) of the austenite left where the products make up ``shares`` of the
+        part (product name -> array with the batch leading, ``ndim`` dimensions)."""
+        b = len(np.shape(self.carbon))
+        rejecting = shares.get("ferrite", 0.0) + shares.get("bainite", 0.0) * batch_leading(self.carbide_free, b, ndim)
+        return austenite_carbon_mass_balance(batch_leading(self.carbon, b, ndim), rejecting, self.ferrite_carbon)
+
+
+class MsOfCarbon:
+    """Ms (K) by one correlation for the steel's analysis with another carbon (the enriched
+    austenite's), the carbon laid out with the batch leading."""
+
+    def __init__(self, composition: Composition, function):
+        self.composition, self.function = composition, function
+
+    def __call__(self, carbon):
+        carbon = np.asarray(carbon, dtype=float)
+        b, q = len(self.composition.shape), carbon.ndim
+        fields = {e: batch_leading(v, b, q) for e, v in self.composition.as_dict().items()}
+        fields["C"] = np.clip(carbon, 0.0, MAX_STEEL_CARBON)
+        return self.function(Composition(**fields))
 
 
 @dataclass(frozen=True)
@@ -335,7 +385,9 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
     batch = np.broadcast_shapes(batch, *shapes)
     grain = np.broadcast_to(grain, batch)
     products = steel_products(comp, grain, critical, model, coefficients)
-    martensite = Martensite(np.where(critical.valid, critical.ms_K, 0.0), ms_method=MS_METHODS[ms_method][1])
+    martensite = Martensite(np.where(critical.valid, critical.ms_K, 0.0), ms_method=MS_METHODS[ms_method][1],
+                            ms_of_carbon=MsOfCarbon(comp, MS_METHODS[ms_method][0]))
+    carbon_balance = CarbonBalance(np.asarray(comp.C), np.asarray(comp.Si + comp.Al >= CARBIDE_FREE_SI_AL))
     lines, warnings = _lines(critical, martensite)
     valid = critical.valid & np.all([p.valid for p in products], axis=0)
     if np.any(~valid & critical.valid):
@@ -405,6 +457,7 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         "kinetics": {p.name: p.coefficients.as_dict() for p in products},
         "kinetics_overridden": sorted(overrides),
         "kinetics_note": model.provenance,
+        "austenite_carbon": carbon_balance.method,
     }
     if calibration is not None:
         provenance["calibration"] = dict(calibration.record)
@@ -424,6 +477,7 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         parent="austenite",
         composition=comp,
         options={**options, "kinetics": coefficients, "calibration": calibration},
+        carbon_balance=carbon_balance,
         valid=None if batch == () else np.broadcast_to(valid, batch),
     )
 

@@ -244,6 +244,44 @@ def lever_rule_ferrite_fraction(T_C, ae3_without_carbon_C, ae1_C, carbon, eutect
     return np.where((carbon < eutectoid_carbon) & (c_gamma > carbon), np.clip(np.nan_to_num(share), 0.0, 1.0), 0.0)
 
 
+def austenite_carbon_mass_balance(carbon, rejecting_share, ferrite_carbon=FERRITE_CARBON_MASS_PERCENT):
+    """Carbon of the austenite left after ferrite (or carbide-free bainitic ferrite) has formed,
+    by mass balance, mass %.
+
+    .. math:: c_\\gamma = \\frac{C - f\\,c_\\alpha}{1 - f}
+
+    with f the share of the part that is carbon-rejecting ferrite and c_alpha its carbon.
+    Products that take the austenite's own carbon with them (pearlite, bainite with
+    carbides) leave it unchanged, so they do not enter.
+
+    Parameters
+    ----------
+    carbon : float or array_like
+        The steel's carbon, mass %.
+    rejecting_share : float or array_like
+        Share of the part that is ferrite rejecting its carbon into the austenite, 0 to 1.
+    ferrite_carbon : float, optional
+        Carbon the ferrite keeps, mass % (default 0.02, common practice).
+
+    Returns
+    -------
+    float ndarray
+        Carbon of the remaining austenite, mass %; where no austenite remains, the limit of
+        the last austenite is taken as the steel's own carbon (nothing is left to hold it).
+
+    Examples
+    --------
+    >>> round(float(austenite_carbon_mass_balance(0.40, 0.45)), 4)
+    0.7109
+    """
+    carbon = np.asarray(carbon, dtype=float)
+    f = np.asarray(rejecting_share, dtype=float)
+    left = 1.0 - f
+    with np.errstate(divide="ignore", invalid="ignore"):
+        enriched = (carbon - f * ferrite_carbon) / left
+    return np.where(left > 0.0, enriched, carbon)
+
+
 def ms_andrews_1965_linear(composition: Composition):
     """Martensite start temperature Ms, linear formula of Andrews (1965), in K.
 
