@@ -18,3 +18,12 @@ def celsius_to_kelvin(t_c):
 
 def kelvin_to_celsius(t_k):
     return t_k - ZERO_CELSIUS_K
+
+
+def celsius_to_fahrenheit(t_c):
+    """Degrees Celsius to Fahrenheit, for figures and printed tables in °F.
+
+    >>> celsius_to_fahrenheit(100.0)
+    212.0
+    """
+    return t_c * 1.8 + 32.0

@@ -11,7 +11,7 @@ import matplotlib.pyplot as plt
 import numpy as np
 from matplotlib.lines import Line2D
 
-from ..constants import kelvin_to_celsius
+from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
 from ..readout import CAUTION_SHORT
 from ..results import OVERALL, CCTResult, CoolingResult
 from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, plot_ttt, to_units
@@ -79,7 +79,7 @@ def plot_cct(result: CCTResult, ax=None, units="C"):
         ax.text(0.005, 0.012, "HV at the end of every other cooling curve", transform=ax.transAxes, fontsize=6.5,
                 color="#333333")
     ax.set_xlabel(f"time since {result.start_C:.0f} °C, s (log scale)" if units == "C"
-                  else f"time since {result.start_C * 1.8 + 32:.0f} °F, s (log scale)")
+                  else f"time since {celsius_to_fahrenheit(result.start_C):.0f} °F, s (log scale)")
     ax.set_ylabel(f"temperature, °{units}")
     ax.set_title(f"Continuous cooling: {literal(result.alloy)}", fontsize=11, loc="left")
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)

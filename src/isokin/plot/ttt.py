@@ -14,7 +14,7 @@ import matplotlib.pyplot as plt
 import numpy as np
 from matplotlib.lines import Line2D
 
-from ..constants import kelvin_to_celsius
+from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
 from ..readout import CAUTION_SHORT, format_duration
 from ..results import PRACTICAL_HORIZON_S, TTTResult
 
@@ -36,7 +36,7 @@ def literal(text: str) -> str:
 
 def to_units(t_c, units="C"):
     """Temperatures in °C as the figure's units: "C" or "F"."""
-    return np.asarray(t_c) * 1.8 + 32.0 if units == "F" else np.asarray(t_c)
+    return celsius_to_fahrenheit(np.asarray(t_c)) if units == "F" else np.asarray(t_c)
 
 
 def plot_ttt(result: TTTResult, ax=None, units="C"):
