@@ -200,11 +200,22 @@ def test_bad_hold_options(args, key, tmp_path):
 
 
 def test_regions_are_labelled_from_the_curves():
+    from isokin.plot.ttt import region_labels
+
     result = isokin.ttt(isokin.load_alloy(ROOT / "alloys" / "aisi-4140-crmo.toml"))
-    texts = [r[0] for r in result.regions]
+    # what the decomposition has become, by the model, after it has finished
+    phases = [r[2] for r in result.regions]
+    assert ("ferrite", "pearlite") in phases and ("bainite",) in phases
+    for T, t_end, _ in result.regions:
+        finish = result.times_s["total"][-1]
+        done = np.isfinite(finish)
+        assert t_end == pytest.approx(np.exp(np.interp(T, result.temperatures_K[done], np.log(finish[done]))), rel=1e-9)
+    # and where the figure writes it
+    labels = region_labels(result)
+    texts = [r[0] for r in labels]
     assert texts[0] == "austenite" and "martensite" in texts and "bainite" in texts
     assert any("ferrite + pearlite" == t for t in texts)
-    parent = result.regions[0]
+    parent = labels[0]
     start = np.interp(parent[1], result.temperatures_K, result.times_s["total"][0])
     assert parent[2] < start  # left of the start curve
 

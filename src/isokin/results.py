@@ -1,7 +1,9 @@
 """Results as data: arrays, names and provenance, never live models.
 
 A result can be saved, compared, sliced to one batch member and turned into a tidy table
-without the models that computed it.
+without the models that computed it. pandas is imported by the ``to_frame`` methods that
+use it, not here: the command line reads results without ever building a table, and
+pandas costs a third of a second to import.
 """
 
 from __future__ import annotations
@@ -17,6 +19,18 @@ from .constants import kelvin_to_celsius
 PRACTICAL_HORIZON_S = 1.0e9
 #: The name of the curve of the decomposition as a whole (all products together).
 OVERALL = "total"
+
+
+@dataclass(frozen=True)
+class Measurements:
+    """Measured points: temperature (K), fraction, time (s), and product (None: the total)."""
+
+    temperature_K: np.ndarray
+    fraction: np.ndarray
+    time_s: np.ndarray
+    product: tuple
+    source: str = "data"
+    rows: tuple = ()
 
 
 @dataclass(frozen=True)
@@ -73,9 +87,12 @@ class TTTResult:
     warnings : tuple of str
     inputs, provenance : dict
         The input as read; the model choices and coefficients used.
-    regions : tuple of (str, float, float or None, str)
-        Phase-region labels of a single alloy: text, temperature K, time s (None: along
-        the whole axis) and alignment, placed from the computed curves.
+    regions : tuple of (float, float, tuple of str)
+        What the parent of a single alloy has become once its transformation has finished,
+        at the temperatures a figure names regions at: temperature K, finish time s, phases.
+    parent, athermal : str
+        The parent phase ("austenite") and the product formed on cooling below its start
+        ("martensite"; None for an alloy without one), for the figure's words.
     fraction_meanings : dict of str to str
         What a fraction X of each curve is, in plain words.
     valid : ndarray of bool or None
@@ -102,6 +119,8 @@ class TTTResult:
     regions: tuple = ()
     fraction_meanings: dict = field(default_factory=dict)
     valid: object = None
+    parent: str = "untransformed"
+    athermal: object = None
 
     @property
     def temperatures_C(self):
@@ -400,6 +419,7 @@ class FitResult:
     loss: str
     avrami: tuple = ()
     theta: object = None
+    model_times_s: object = None
 
     def to_frame(self):
         """One row per free parameter: parameter, model value, fitted value, interval."""

@@ -23,6 +23,8 @@ import numpy as np
 
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
 from ..errors import InputError
+from ..relations.hardness import hardness_of_mixture
+from ..results import OVERALL, CCTResult, CoolingResult
 from .decomposition import WAIT_FRACTION
 
 #: Steps of a constructed path: temperature steps of at most this, K.
@@ -200,12 +202,12 @@ def along(alloy, paths):
             w = by_name[waits_for]
             # once the other has reached its wait fraction, for good; and wherever it cannot form at all
             done = _running(sums[waits_for] >= float(w.reaction_term(WAIT_FRACTION)), np.logical_or)
-            started = started & (done | ~(np.isfinite(w.time_factor(T)) & (_equilibrium(w, T) > 0.0)))
+            started = started & (done | ~(np.isfinite(w.time_factor(T)) & (w.equilibrium_fraction(T) > 0.0)))
         increments = _trapezoid_increments(speed, dt) * started[..., 1:]
         sums[p.name] = np.concatenate([np.zeros(T.shape[:-1] + (1,)), np.cumsum(increments, axis=-1)], axis=-1)
         s_end = float(p.reaction_term(1.0))
         x = p.reaction_term_inverse(np.minimum(sums[p.name], s_end) if np.isfinite(s_end) else sums[p.name])
-        cap = _running(np.where(forms, _equilibrium(p, T), 0.0), np.maximum)
+        cap = _running(np.where(forms, p.equilibrium_fraction(T), 0.0), np.maximum)
         own[p.name] = _running(cap * x, np.maximum)
     remaining = np.ones(T.shape)
     for a in own.values():
@@ -239,10 +241,6 @@ def along(alloy, paths):
     return t, T, fractions, carbon
 
 
-def _equilibrium(product, T):
-    return product.equilibrium_fraction(T) if hasattr(product, "equilibrium_fraction") else np.ones(np.shape(T))
-
-
 def _sequence_order(alloy):
     """Product names with every product after the one it waits for."""
     names = [p.name for p in alloy.products]
@@ -260,8 +258,6 @@ def hardness(alloy, paths, final, carbon):
     """Vickers hardness at the end of each path (Maynier et al. 1978 for bainite and ferrite +
     pearlite at the path's rate at 700 °C, ASTM A255 for martensite of the austenite's carbon,
     retained austenite counted soft) and that rate, °C/h; None where the alloy is not a steel."""
-    from ..relations.hardness import hardness_of_mixture
-
     if alloy.model != "steel":
         return None
     rate = np.array([p.rate_at_C_per_h() for p in paths])
@@ -321,8 +317,6 @@ def cool(alloy, path):
     >>> float(water.final["martensite"][0]) > 0.9
     True
     """
-    from ..results import CoolingResult
-
     paths = _path_list(path)
     t, T, fractions, carbon = along(alloy, paths)
     final = {name: v[:, -1] for name, v in fractions.items()}
@@ -359,8 +353,6 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
         product and of the whole decomposition, the final fractions and hardness, and the
         critical cooling rates.
     """
-    from ..results import CCTResult, OVERALL
-
     rates = np.asarray(DEFAULT_RATES_K_S if rates_K_s is None else rates_K_s, dtype=float).ravel()
     if rates.size < 1 or not np.all(np.isfinite(rates) & (rates > 0)):
         raise InputError(None, "rates_K_s", "give one or more positive finite cooling rates in K/s")
@@ -414,18 +406,33 @@ def critical_rates(alloy, start_C, end_C=20.0):
                 "the part (the quench-sensitive range passed in time)",
                 lambda fr: sum(np.asarray(fr[n]) for n in products) < 0.01),
         }
+    keys = list(definitions)
+    ends = [20.0 if key.startswith("martensite") else end_C for key in keys]
+
+    def good(rates, which):
+        """Whether definition ``which[i]`` holds at ``rates[i]``: one batch of paths for all pairs."""
+        final = cool(alloy, [constant_rate(r, start_C, ends[k]) for r, k in zip(rates, which)]).final
+        return np.array([bool(np.asarray(definitions[keys[k]][1](final))[i]) for i, k in enumerate(which)])
+
+    scan = np.geomspace(1e-3, 1e4, 15)
+    every = np.arange(len(keys))
+    passed = good(np.tile(scan, len(keys)), np.repeat(every, scan.size)).reshape(len(keys), scan.size)
+    lo, hi = np.full(len(keys), np.nan), np.full(len(keys), np.nan)
+    bracketed = ~passed[:, 0] & passed[:, -1]
+    for k in np.flatnonzero(bracketed):
+        first = int(np.argmax(passed[k]))
+        lo[k], hi[k] = np.log(scan[first - 1]), np.log(scan[first])
+    # every bracketed definition halves its bracket in the same batch of paths
+    while bracketed.any() and np.any(hi[bracketed] - lo[bracketed] > np.log(RATE_TOLERANCE)):
+        going = np.flatnonzero(bracketed & (hi - lo > np.log(RATE_TOLERANCE)))
+        mid = 0.5 * (lo[going] + hi[going])
+        ok = good(np.exp(mid), going)
+        lo[going], hi[going] = np.where(ok, lo[going], mid), np.where(ok, mid, hi[going])
     out = {}
-    for key, (definition, ok) in definitions.items():
-        end = 20.0 if key.startswith("martensite") else end_C
-
-        def good(rates):
-            result = cool(alloy, [constant_rate(r, start_C, end) for r in rates])
-            return np.asarray(ok(result.final), dtype=bool)
-
-        scan = np.geomspace(1e-3, 1e4, 15)
-        passed = good(scan)
-        record = {"definition": definition, "tolerance": f"within {100 * (RATE_TOLERANCE - 1):.1f} % of the rate"}
-        if not passed[-1]:
+    for k, key in enumerate(keys):
+        record = {"definition": definitions[key][0],
+                  "tolerance": f"within {100 * (RATE_TOLERANCE - 1):.1f} % of the rate"}
+        if not passed[k, -1]:
             record["rate_K_s"] = None
             record["note"] = "not reached at any rate up to 1e4 K/s"
             if key.startswith("martensite"):
@@ -433,15 +440,10 @@ def critical_rates(alloy, start_C, end_C=20.0):
                 if most < 0.95:
                     record["note"] = (f"never: Koistinen-Marburger from Ms gives at most {most * 100:.0f} % martensite "
                                       "at 20 °C; the rest stays retained austenite (sub-zero treatment would be needed)")
-        elif passed[0]:
+        elif passed[k, 0]:
             record["rate_K_s"] = float(scan[0])
             record["note"] = "met already at 1e-3 K/s, the slowest rate tried"
         else:
-            k = int(np.argmax(passed))
-            lo, hi = np.log(scan[k - 1]), np.log(scan[k])
-            while hi - lo > np.log(RATE_TOLERANCE):
-                mid = 0.5 * (lo + hi)
-                lo, hi = (lo, mid) if good([np.exp(mid)])[0] else (mid, hi)
-            record["rate_K_s"] = float(np.exp(hi))
+            record["rate_K_s"] = float(np.exp(hi[k]))
         out[key] = record
     return out

@@ -27,7 +27,10 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..constants import celsius_to_kelvin
+from ..errors import InputError
 from ..products.base import as_query, batch_leading, writeable
+from ..results import OVERALL, HoldResult
 
 #: A product that waits for another begins when that one has reached this share of its own
 #: completion (the full completion takes infinitely long in JMAK).
@@ -90,7 +93,7 @@ class Decomposition:
         b, q = len(p.batch_shape), self.T.ndim
         forms = ((self.T >= batch_leading(np.asarray(p.lower_K), b, q))
                  & (self.T < batch_leading(np.asarray(p.upper_K), b, q)))
-        cap = p.equilibrium_fraction(self.T) if hasattr(p, "equilibrium_fraction") else 1.0
+        cap = p.equilibrium_fraction(self.T)
         return np.where(forms, cap, 0.0)
 
     def _delay(self, name):
@@ -186,7 +189,7 @@ class Decomposition:
         """
         involved = [p for p in self.alloy.products
                     if np.any(np.broadcast_to(self.caps[p.name], shape).ravel()[idx] > 0.0)]
-        if all(p.separable and np.ndim(getattr(p, "exponent", 0.0)) == 0 for p in involved):
+        if all(p.separable for p in involved):
             parts = []
             for p in involved:
                 factor = np.broadcast_to(self.factors[p.name], shape).ravel()
@@ -284,7 +287,7 @@ class ProductCurve:
             np.copyto(t, np.inf, where=~reachable)
             return t
         reachable = cap > X
-        if self.product.separable and np.ndim(getattr(self.product, "exponent", 0.0)) == 0:
+        if self.product.separable:
             # t = delay + F(T) S(X / cap): S only where the share is reachable, F on the
             # temperatures' shape, broadcast in the product
             shape = np.broadcast_shapes(reachable.shape, np.shape(delay))
@@ -310,8 +313,6 @@ class OverallCurve:
     product, so the diagram solver and its nose refinement treat it as one."""
 
     def __init__(self, alloy, shared=None):
-        from ..results import OVERALL
-
         self.alloy = alloy
         self._shared = SharedDecomposition(alloy) if shared is None else shared
         self.name = OVERALL
@@ -334,56 +335,39 @@ def _sequence_text(alloy):
                      for after, before in alloy.sequence.items())
 
 
-#: A product or the untransformed parent appears in a region's name from this share on.
+#: A product or the untransformed parent is named in a region from this share on.
 REGION_SHARE = 0.05
-#: A region label keeps this share of the temperature range clear of the critical lines.
-REGION_ROOM = 0.025
 
 
-def region_labels(alloy, grid_K, overall_times, overall_noses, noses):
-    """Where to write the phase regions of a single alloy's diagram, from its computed curves.
+def regions_after(alloy, grid_K, finish_times, noses):
+    """What the parent has become once its transformation has finished, at the temperatures a
+    diagram names regions at: each product's nose (its middle fraction) and midway between
+    consecutive upper temperatures (austenite + ferrite between Ae1 and Ae3).
 
-    Returns a tuple of (text, temperature K, time s or None, alignment): the parent left of
-    the start curve above its nose (the text ends there: "right"); what the parent has
-    become right of the finish curve at each product's nose and between consecutive upper
-    temperatures (austenite + ferrite between Ae1 and Ae3, where the band is wide enough;
-    the text starts there: "left"); martensite below Ms (time None: mid-axis, "center").
+    Returns a tuple of (temperature K, finish time s, phases) for a single alloy: the phases
+    that make up :data:`REGION_SHARE` or more of the part at three times the finish time of
+    the whole decomposition, the parent first where some of it is left. Where the words go
+    is the figure's business (:mod:`isokin.plot.ttt`).
     """
-    labels = []
-    start, finish = overall_times[0], overall_times[-1]
-    ok = np.isfinite(start)
-    if ok.sum() >= 2 and bool(overall_noses.inside[0]):
-        T_nose = float(overall_noses.temperature_K[0])
-        T_parent = T_nose + 0.55 * (grid_K[-1] - T_nose)
-        t_start = np.exp(np.interp(T_parent, grid_K[ok], np.log(start[ok])))
-        labels.append((alloy.parent, T_parent, t_start / 1.6, "right"))
     uppers = sorted({min(float(np.max(p.upper_K)), float(grid_K[-1])) for p in alloy.products
                      if grid_K[0] < np.max(p.upper_K) <= grid_K[-1] + 1.0})
-    candidates = [float(noses[p.name].temperature_K[len(noses[p.name].time_s) // 2]) for p in alloy.products
-                  if noses[p.name].forms.any() and bool(noses[p.name].inside[len(noses[p.name].time_s) // 2])]
+    middle = {p.name: len(noses[p.name].time_s) // 2 for p in alloy.products}
+    candidates = [float(noses[p.name].temperature_K[middle[p.name]]) for p in alloy.products
+                  if noses[p.name].forms.any() and bool(noses[p.name].inside[middle[p.name]])]
     candidates += [0.5 * (a + b) for a, b in zip(uppers, uppers[1:])]
-    done = np.isfinite(finish)
-    seen = set()
-    lines = [float(v) for v in alloy.critical_K.values() if np.isfinite(v)]
-    room = REGION_ROOM * (grid_K[-1] - grid_K[0])
+    done = np.isfinite(finish_times)
+    out = []
     for T in sorted(candidates, reverse=True):
-        if done.sum() < 2 or not grid_K[0] < T < grid_K[-1] or any(abs(T - line) < room for line in lines):
+        if done.sum() < 2 or not grid_K[0] < T < grid_K[-1]:
             continue
-        t_end = float(np.exp(np.interp(T, grid_K[done], np.log(finish[done]))))
+        t_end = float(np.exp(np.interp(T, grid_K[done], np.log(finish_times[done]))))
         held = Decomposition(alloy, np.array(T))
         shares = held.shares(np.array(3.0 * t_end))
-        parts = [alloy.parent] if 1.0 - float(held.total(np.array(3.0 * t_end))) >= REGION_SHARE else []
-        parts += [name for name, share in shares.items() if float(share) >= REGION_SHARE]
-        text = " + ".join(parts)
-        if parts and text not in seen:
-            seen.add(text)
-            labels.append((text, T, 1.6 * t_end, "left"))
-    if alloy.martensite is not None and "Ms" in alloy.critical_K:
-        ms = float(alloy.critical_K["Ms"])
-        if grid_K[0] < ms:
-            labels.append((alloy.martensite.name, 0.5 * (ms + max(grid_K[0], float(alloy.critical_K.get("M90", grid_K[0])))),
-                           None, "center"))
-    return tuple(labels)
+        phases = [alloy.parent] if 1.0 - float(held.total(np.array(3.0 * t_end))) >= REGION_SHARE else []
+        phases += [name for name, share in shares.items() if float(share) >= REGION_SHARE]
+        if phases:
+            out.append((T, t_end, tuple(phases)))
+    return tuple(out)
 
 
 #: Fractions of the milestones a hold reports for each product and for the total.
@@ -426,10 +410,6 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
     >>> round(float(after.fractions["pearlite"]), 3)
     1.0
     """
-    from ..constants import celsius_to_kelvin
-    from ..errors import InputError
-    from ..results import HoldResult, OVERALL
-
     T_C = np.asarray(temperature_C, dtype=float)
     t = np.asarray(time_s, dtype=float)
     if not np.all(np.isfinite(T_C)) or np.any(T_C <= -273.15):

@@ -18,36 +18,21 @@ Free parameters are named ``<product>.<parameter>``:
 
 from __future__ import annotations
 
-import dataclasses
 import warnings
 
 import numpy as np
 
-from ..constants import CALORIE_J
 from ..errors import InputError
+from ..results import FitResult, Measurements
 from .decomposition import Decomposition
+from .ttt import ttt
 
-STEEL_PARAMETERS = ("factor", "activation_energy_cal_mol", "undercooling_exponent")
-PHYSICAL_PARAMETERS = ("interface_energy_J_m2", "diffusion_prefactor_m2_s", "nucleation_activation_J_mol",
-                       "diffusion_activation_J_mol")
 #: Parameters fitted in their logarithm (they span decades and must stay positive).
 LOG_PARAMETERS = ("factor", "diffusion_prefactor_m2_s")
 #: Scale of the robust loss in ln t: residuals beyond about this count linearly, not squared.
 ROBUST_SCALE = 0.2
 #: The confidence level of the reported intervals.
 CONFIDENCE = 0.95
-
-
-@dataclasses.dataclass(frozen=True)
-class Measurements:
-    """Measured points: temperature (K), fraction, time (s), and product (None: the total)."""
-
-    temperature_K: np.ndarray
-    fraction: np.ndarray
-    time_s: np.ndarray
-    product: tuple
-    source: str = "data"
-    rows: tuple = ()
 
 
 def avrami_exponent(time_s, fraction):
@@ -62,71 +47,37 @@ def avrami_exponent(time_s, fraction):
     return float(np.polyfit(x, y, 1)[0])
 
 
-def _base_value(alloy, product, parameter):
-    p = next(q for q in alloy.products if q.name == product)
-    if parameter in STEEL_PARAMETERS:
-        c = p.coefficients
-        return {"factor": 1.0, "activation_energy_cal_mol": float(c.activation_energy_cal_mol),
-                "undercooling_exponent": float(c.undercooling_exponent)}[parameter]
-    return float(getattr(p.params, parameter))
-
-
 def _check_free(alloy, free):
-    names = {p.name for p in alloy.products}
-    allowed = STEEL_PARAMETERS if alloy.model == "steel" else PHYSICAL_PARAMETERS
+    known = alloy.calibration_parameters
+    if len(set(free)) != len(free):
+        raise InputError(None, "free", "names a parameter twice; give each once")
     for name in free:
-        product, _, parameter = name.partition(".")
-        if product not in names or parameter not in allowed:
+        if name not in known:
+            products = sorted({p.name for p in alloy.products})
+            parameters = sorted({k.partition(".")[2] for k in known})
             raise InputError(None, "free", f"unknown parameter '{name}'; give <product>.<parameter> with a product of "
-                             f"{', '.join(sorted(names))} and a parameter of {', '.join(allowed)}")
+                             f"{', '.join(products)} and a parameter of {', '.join(parameters)}")
 
 
 def default_free(alloy, data: Measurements):
     """Free parameters when none are named: for each product the data name (or, for data of
     the whole decomposition, each product that makes up 5 % or more of the part at some
-    measured point), its factor (steels) or its interface energy and diffusion prefactor."""
+    measured point), its default calibration parameters (a steel product's factor; a
+    physical product's interface energy and diffusion prefactor)."""
     wanted = [n for n in data.product if n is not None]
     if wanted:
-        forming = [p.name for p in alloy.products if p.name in wanted]
+        forming = [p for p in alloy.products if p.name in wanted]
     else:
         # the products that make up a real share of what the dilatometer saw
         shares = Decomposition(alloy, data.temperature_K).shares(data.time_s)
-        forming = [name for name, share in shares.items() if np.any(share >= 0.05)]
-    if alloy.model == "steel":
-        return tuple(f"{n}.factor" for n in forming)
-    return tuple(f"{n}.{k}" for n in forming for k in ("interface_energy_J_m2", "diffusion_prefactor_m2_s"))
+        forming = [p for p in alloy.products if np.any(shares[p.name] >= 0.05)]
+    return tuple(f"{p.name}.{k}" for p in forming for k in p.default_calibration)
 
 
 def with_values(alloy, values: dict):
     """The alloy with parameters set (``{"bainite.factor": 2.0, ...}``); values may be arrays
     (a batch of parameter sets)."""
-    if not values:
-        return alloy
-    if alloy.model == "steel":
-        from ..products.steel import rebuild
-
-        kinetics = {}
-        for name, value in values.items():
-            product, _, parameter = name.partition(".")
-            base = next(p for p in alloy.products if p.name == product).coefficients
-            change = kinetics.setdefault(product, {})
-            if parameter == "factor":
-                change["factor"] = base.factor * np.asarray(value)
-            elif parameter == "activation_energy_cal_mol":
-                change["activation_energy_J_mol"] = np.asarray(value) * CALORIE_J
-            else:
-                change[parameter] = np.asarray(value)
-        return rebuild(alloy, kinetics={p.name: dataclasses.replace(p.coefficients, **kinetics[p.name])
-                                        if p.name in kinetics else p.coefficients for p in alloy.products})
-    from ..products.nucleation_growth import NucleationGrowthProduct, nucleation_growth_alloy
-
-    products = []
-    for p in alloy.products:
-        changes = {name.partition(".")[2]: np.asarray(v) for name, v in values.items() if name.partition(".")[0] == p.name}
-        products.append(NucleationGrowthProduct(p.name, dataclasses.replace(p.params, **changes), p.lower_K)
-                        if changes else p)
-    fitted = nucleation_growth_alloy(alloy.name, products, inputs=alloy.inputs)
-    return fitted.replace(default_range_K=alloy.default_range_K, default_points=alloy.default_points)
+    return alloy.with_parameters(values)
 
 
 def model_times(alloy, data: Measurements):
@@ -186,10 +137,8 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
     -------
     FitResult
     """
-    from scipy.optimize import least_squares
-    from scipy.stats import t as student_t
-
-    from ..results import FitResult
+    from scipy.optimize import least_squares  # scipy.optimize loads on first use: the CLI starts faster
+    from scipy.special import stdtrit
 
     if alloy.batch_shape:
         raise InputError(None, "alloy", "a fit takes one alloy, not a batch")
@@ -206,7 +155,7 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
                          f"{data.temperature_K[i] - 273.15:g} °C in this model; check the temperature and product")
     if m < k + 1:
         raise InputError(data.source, None, f"{m} points cannot fit {k} free parameters; give at least {k + 1}")
-    base = {n: _base_value(alloy, *n.split(".", 1)) for n in free}
+    base = {n: alloy.calibration_parameters[n] for n in free}
     theta0 = np.array([_to_internal(n, base[n]) for n in free], dtype=float)
     log_measured = np.log(data.time_s)
 
@@ -233,23 +182,14 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
         covariance = np.linalg.inv(J.T @ J) * s2
     except np.linalg.LinAlgError:
         covariance = np.full((k, k), np.nan)
-    half = student_t.ppf(0.5 + CONFIDENCE / 2, dof) * np.sqrt(np.clip(np.diag(covariance), 0, None))
+    half = stdtrit(dof, 0.5 + CONFIDENCE / 2) * np.sqrt(np.clip(np.diag(covariance), 0, None))
     intervals = {n: tuple(_to_values([n], [v])[n] for v in (theta[i] - half[i], theta[i] + half[i]))
                  for i, n in enumerate(free)}
     boot = {}
     if bootstrap:
         rng = np.random.default_rng(seed)
-        draws = []
-        for done in range(1, int(bootstrap) + 1):
-            pick = rng.integers(0, m, m)
-            # from the fit's own solution, to the precision an interval needs (not 1e-8)
-            again = least_squares(lambda th: residuals(th, pick), theta, loss=loss, f_scale=ROBUST_SCALE,
-                                  x_scale="jac", method="trf", max_nfev=30, bounds=bounds, ftol=1e-5, xtol=1e-5,
-                                  gtol=1e-5)
-            draws.append(again.x)
-            if progress is not None:
-                progress(done, int(bootstrap))
-        draws = np.array(draws)
+        counts = np.stack([np.bincount(rng.integers(0, m, m), minlength=m) for _ in range(int(bootstrap))])
+        draws = _refit_batch(alloy, data, free, theta, bounds, counts, loss, progress)
         lo, hi = np.percentile(draws, [50 * (1 - CONFIDENCE), 50 * (1 + CONFIDENCE)], axis=0)
         boot = {n: (_to_values([n], [lo[i]])[n], _to_values([n], [hi[i]])[n]) for i, n in enumerate(free)}
     values = _to_values(free, theta)
@@ -257,7 +197,74 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
     return FitResult(alloy=alloy, fitted=fitted, free=free, values={n: float(v) for n, v in values.items()},
                      model_values=base, intervals=intervals, bootstrap_intervals=boot, residuals_ln_t=r,
                      rms_ln_t=float(np.sqrt(np.mean(r**2))), data=data, covariance=covariance, loss=loss,
-                     avrami=_avrami(fitted, data), theta=theta)
+                     avrami=_avrami(fitted, data), theta=theta, model_times_s=model_times(fitted, data))
+
+
+#: Iterations of the batched refit of the bootstrap at most, and the step (in the fitted
+#: coordinates) below which a resample has converged: the precision an interval needs.
+_REFIT_STEPS = 30
+_REFIT_TOLERANCE = 1e-5
+
+
+def _refit_batch(alloy, data, free, theta, bounds, counts, loss, progress=None):
+    """The fit again for every bootstrap resample at once: damped Gauss-Newton steps
+    (Levenberg-Marquardt) with the robust loss's weights, every resample's model times from
+    one batch of parameter sets per step (the resample, and one forward difference per free
+    parameter for the Jacobian). ``counts`` (resample, point): how often each point was drawn.
+    Returns the parameters (resample, free) in the fitted coordinates."""
+    B, k = counts.shape[0], len(free)
+    log_measured = np.log(data.time_s)
+    lower, upper = bounds
+
+    def residuals(th):
+        """(sets, points) residuals in ln t for parameter sets ``th`` (sets, free)."""
+        times = model_times(with_values(alloy, _to_values(free, th.T)), data)
+        with np.errstate(divide="ignore"):
+            r = np.log(times) - log_measured
+        return np.where(np.isfinite(r), r, 50.0)
+
+    def cost(r, rows=slice(None)):
+        z = (r / ROBUST_SCALE) ** 2
+        rho = 2.0 * (np.sqrt(1.0 + z) - 1.0) if loss == "soft_l1" else z
+        return 0.5 * ROBUST_SCALE**2 * np.sum(counts[rows] * rho, axis=1)
+
+    def cost_of(th_rows, rows):
+        return cost(residuals(th_rows), rows)
+
+    th = np.repeat(theta[None, :], B, axis=0)
+    h = 1e-6 * np.maximum(np.abs(th), 1.0)
+    damping = np.full(B, 1e-3)
+    going = np.ones(B, dtype=bool)
+    for step in range(_REFIT_STEPS):
+        # the resample and its forward differences, as one batch of parameter sets
+        shifted = th[:, None, :] + np.eye(k)[None, :, :] * h[:, None, :]
+        r_all = residuals(np.concatenate([th[:, None, :], shifted], axis=1).reshape(-1, k)).reshape(B, k + 1, -1)
+        r = r_all[:, 0, :]
+        J = np.swapaxes((r_all[:, 1:, :] - r[:, None, :]) / h[:, :, None], 1, 2)  # (B, points, free)
+        weight = counts / np.sqrt(1.0 + (r / ROBUST_SCALE) ** 2) if loss == "soft_l1" else counts.astype(float)
+        A = np.einsum("bpi,bp,bpj->bij", J, weight, J)
+        g = np.einsum("bpi,bp,bp->bi", J, weight, r)
+        diag = np.maximum(np.diagonal(A, axis1=1, axis2=2), 1e-12)
+        now = cost(r)
+        accepted = np.zeros(B, dtype=bool)
+        for _ in range(8):  # raise the damping where a step would not lower the cost
+            trying = np.flatnonzero(going & ~accepted)
+            if trying.size == 0:
+                break
+            lhs = A[trying] + damping[trying, None, None] * np.einsum("bi,ij->bij", diag[trying], np.eye(k))
+            delta = -np.linalg.solve(lhs, g[trying, :, None])[..., 0]
+            trial = np.clip(th[trying] + delta, lower, upper)
+            better = cost_of(trial, trying) <= now[trying]
+            th[trying[better]] = trial[better]
+            damping[trying] = np.where(better, damping[trying] / 3.0, damping[trying] * 10.0)
+            going[trying[better & (np.max(np.abs(delta), axis=1) < _REFIT_TOLERANCE)]] = False
+            accepted[trying[better]] = True
+        going &= accepted  # a resample that cannot lower its cost has reached its minimum
+        if progress is not None:
+            progress(int(np.count_nonzero(~going)), B)
+        if not going.any():
+            break
+    return th
 
 
 def _avrami(alloy, data):
@@ -277,8 +284,6 @@ def _avrami(alloy, data):
 def band(result, fractions=(0.01, 0.5, 0.99), samples=100, seed=1, temperatures_K=None):
     """Curves of the fitted model and their band: the 2.5 and 97.5 percentiles of the times over
     parameter sets drawn from the fit's covariance (one batch). Returns (T_K, times, lo, hi)."""
-    from .ttt import ttt
-
     fitted = result.fitted
     T = temperatures_K if temperatures_K is not None else np.linspace(*fitted.default_range_K, 120)
     centre = ttt(fitted, temperatures_C=T - 273.15, fractions=fractions)

@@ -13,6 +13,9 @@ import numpy as np
 
 from ..constants import kelvin_to_celsius
 from ..errors import InputError
+from ..readout import format_duration
+from ..relations.hardness import hardness_of_mixture
+from ..results import PlanResult
 from .cooling import constant_rate, cool, default_start_C, lumped_time_constant
 from .decomposition import Decomposition, ProductCurve, hold
 
@@ -100,8 +103,18 @@ def _edges(margin, T_scan, ok):
 
 def _required_rates(alloy, start_C, hold_C, avoid=("ferrite", "pearlite")):
     """Per hold temperature: the slowest constant rate from start_C to it with the named
-    products under 1 % on arrival (additivity), by bisection on ln(rate) to 1 %."""
+    products under 1 % on arrival (additivity), by bisection on ln(rate) to 1 %.
+
+    The named products cannot form below the lowest of their lower bounds, so every path
+    that ends below it has the same share of them on arrival as one that ends there: those
+    holds share one bisection."""
     hold_C = np.atleast_1d(hold_C)
+    lowest = min((float(np.min(p.lower_K)) for p in alloy.products if p.name in avoid), default=0.0)
+    ends, back = np.unique(np.maximum(hold_C, kelvin_to_celsius(lowest)), return_inverse=True)
+    return _bisected_rates(alloy, start_C, ends, avoid)[back]
+
+
+def _bisected_rates(alloy, start_C, hold_C, avoid):
     lo, hi = np.full(hold_C.shape, np.log(1e-3)), np.full(hold_C.shape, np.log(1e4))
 
     def soft(rates):
@@ -133,8 +146,6 @@ def _microstructure(alloy, T_C, hold_s):
 def _hardness(alloy, fractions, rate_K_s, carbon):
     """HV of the structure after the hold and quench (Maynier et al. 1978 for bainite and ferrite
     + pearlite with the quench rate at 700 °C, ASTM A255 for martensite of the austenite's carbon)."""
-    from ..relations.hardness import hardness_of_mixture
-
     rate = np.nan_to_num(np.asarray(rate_K_s, dtype=float), nan=1.0) * 3600.0
     return hardness_of_mixture(alloy.composition, fractions, rate, carbon)
 
@@ -327,8 +338,6 @@ def _worst_note(worst_case):
 
 
 def _duration(t_s):
-    from ..readout import format_duration
-
     return format_duration(t_s) if t_s is not None and np.isfinite(t_s) else "never"
 
 
@@ -356,8 +365,6 @@ def _choose(rows, ok, target_hv, default_reason, prefer="shortest"):
 
 
 def _result(route, alloy, rows, ok, edges, choice, reason, nearest, options, warnings=()):
-    from ..results import PlanResult
-
     if ok.any():
         lo, hi = float(rows["temperature_C"][ok].min()), float(rows["temperature_C"][ok].max())
         window = [lo, hi]

@@ -13,7 +13,7 @@ from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..products.base import writeable
 from ..results import OVERALL, Noses, TTTResult
-from .decomposition import WAIT_FRACTION, OverallCurve, ProductCurve, SharedDecomposition, region_labels
+from .decomposition import WAIT_FRACTION, OverallCurve, ProductCurve, SharedDecomposition, regions_after
 from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
 
 #: A nose faster than this (s) means an input slip, not a transformation: said in a warning.
@@ -168,7 +168,7 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         grid = np.sort(celsius_to_kelvin(np.asarray(temperatures_C, dtype=float).ravel()))
         if grid.size < 3 or not np.all(np.isfinite(grid)) or grid[0] <= 0 or np.any(np.diff(grid) <= 0):
             raise InputError(None, "temperatures_C", "give three or more distinct finite temperatures above -273.15 °C")
-    within = decomposition and (alloy.sequence or any(hasattr(p, "equilibrium_fraction") for p in alloy.products))
+    within = decomposition and bool(alloy.sequence or any(p.capped for p in alloy.products))
     shared = SharedDecomposition(alloy)
     curves = [ProductCurve(alloy, p, shared) if within else p for p in alloy.products]
     with_whole = overall and decomposition and len(alloy.products) > 1
@@ -185,7 +185,7 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         models[OVERALL] = whole.model
         uppers[OVERALL] = whole.upper_K
         if not alloy.batch_shape:
-            regions = region_labels(alloy, grid, times[OVERALL], noses[OVERALL], noses)
+            regions = regions_after(alloy, grid, times[OVERALL][-1], noses)
     warnings = list(alloy.warnings)
     meanings = {p.name: fraction_meaning(alloy, p, within) for p in alloy.products}
     if with_whole:
@@ -216,6 +216,8 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         regions=regions,
         fraction_meanings=meanings,
         valid=alloy.valid,
+        parent=alloy.parent,
+        athermal=None if alloy.martensite is None else alloy.martensite.name,
     )
 
 

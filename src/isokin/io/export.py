@@ -7,6 +7,7 @@ beside an old table, nor half a file where a good one was.
 
 from __future__ import annotations
 
+import copy
 import errno
 import json
 import math
@@ -20,6 +21,7 @@ import numpy as np
 from .. import __version__
 from ..constants import kelvin_to_celsius
 from ..readout import CAUTION_SHORT
+from ..relations.hardness import hrc_from_hv_astm_e140
 from ..results import PRACTICAL_HORIZON_S, TTTResult
 
 CURVE_COLUMNS = ["product", "fraction", "temperature_C", "time_s"]
@@ -236,8 +238,6 @@ def write_hold_json(result, target: Path):
 
 
 def _cooling_entries(result, index):
-    from ..relations.hardness import hrc_from_hv_astm_e140
-
     entry = {"final_fractions": {name: round(float(v[index]), 6) for name, v in result.final.items()},
              "starts": {name: {"time_s": _finite_or_none(result.start_time_s[name][index]),
                                "temperature_C": _finite_or_none(kelvin_to_celsius(result.start_temperature_K[name][index]))}
@@ -333,7 +333,7 @@ def write_plan_csv(result, target: Path):
 
 def write_plan_xlsx(result, curves, target: Path):
     """A spreadsheet: the plan's candidates, a summary sheet, and the curves (openpyxl through pandas)."""
-    import pandas as pd
+    import pandas as pd  # only a spreadsheet needs it: the other exports start without it
 
     summary = plan_summary(result)
     head = [("alloy", result.alloy), ("route", result.route),
@@ -349,8 +349,6 @@ def write_plan_xlsx(result, curves, target: Path):
 
 def calibrated_tables(result, data_name: str, digest: str, date: str) -> dict:
     """The alloy file's tables with the fitted values in place and a [calibration] record."""
-    import copy
-
     tables = copy.deepcopy({k: v for k, v in result.alloy.inputs.items() if k != "calibration"})
     tables["alloy"] = {**tables.get("alloy", {})}
     base_name = tables["alloy"].get("name", result.alloy.name)
@@ -398,9 +396,7 @@ def calibrated_tables(result, data_name: str, digest: str, date: str) -> dict:
 
 def fit_report(result, data_name: str, digest: str, date: str) -> dict:
     """Parameters with intervals, residuals per point, Avrami exponents, fit quality, the record."""
-    from ..compute.fit import model_times
-
-    model = model_times(result.fitted, result.data)
+    model = result.model_times_s
     d = result.data
     return {
         "isokin_version": __version__,

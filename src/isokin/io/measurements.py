@@ -21,7 +21,7 @@ from pathlib import Path
 
 import numpy as np
 
-from ..compute.fit import Measurements
+from ..results import Measurements
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from .schema import parse_number, read_input_file

@@ -9,6 +9,7 @@ from __future__ import annotations
 import difflib
 from pathlib import Path
 
+from ..compute.spread import check_ranges
 from ..errors import InputError
 from ..products.critical import BS_METHODS, MS_METHODS
 from ..products.steel import (
@@ -124,10 +125,8 @@ def read_ranges(source, table) -> dict:
             out[element] = ("normal", values["nominal"], values["uncertainty"])
         else:
             raise InputError(source, where, "must be [min, max] or { nominal = ..., uncertainty = ... }")
-    from ..compute.spread import check_ranges
-
     try:
-        return check_ranges({}, out)
+        return check_ranges(out)
     except InputError as exc:
         raise exc.relocated(source) from None
 

@@ -8,6 +8,7 @@ from pathlib import Path
 
 import numpy as np
 
+from ..compute.cooling import measured
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..relations.driving_force import DrivingForceTable
@@ -77,8 +78,6 @@ def read_cooling_log(path: Path, source=None, key="log"):
     line. Gaps are bridged linearly by the path itself. ``source`` and ``key`` name where the
     log was given, for the error message.
     """
-    from ..compute.cooling import measured
-
     values = []
     for line, numbers in _numeric_rows(source, key, path, "cooling log", LOG_COLUMNS):
         if not numbers[1] > -273.15:

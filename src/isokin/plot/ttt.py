@@ -132,6 +132,12 @@ SHARED_NOSE_SHARE = 0.02
 #: The decomposition as a whole is drawn in near-black.
 OVERALL_COLOUR = "#111111"
 REGION_STYLE = {"fontsize": 9, "fontstyle": "italic", "color": "#4a4a4a", "va": "center", "zorder": 2}
+#: A region label keeps this share of the temperature range clear of the critical lines.
+REGION_ROOM = 0.025
+#: The parent's label sits this share of the way from the start nose to the top of the
+#: grid, and region words stand this factor clear of the curve they follow (in time).
+PARENT_HEIGHT = 0.55
+REGION_GAP = 1.6
 
 
 def _colour(result: TTTResult, index):
@@ -139,10 +145,43 @@ def _colour(result: TTTResult, index):
     return OVERALL_COLOUR if name == result.overall else PRODUCT_COLOURS[index % len(PRODUCT_COLOURS)]
 
 
+def region_labels(result: TTTResult):
+    """Where to write the phase regions of a single alloy's diagram: a tuple of (text,
+    temperature K, time s or None, alignment). The parent left of the start curve above its
+    nose (the text ends there: "right"); what the parent has become right of the finish curve
+    (``result.regions``; the text starts there: "left"), each text once and clear of the
+    critical lines; the athermal product below Ms (time None: mid-axis, "center")."""
+    grid = result.temperatures_K
+    labels = []
+    whole = result.overall
+    if whole is not None:
+        start, nose = result.times_s[whole][0], result.noses[whole]
+        ok = np.isfinite(start)
+        if ok.sum() >= 2 and bool(nose.inside[0]):
+            T_nose = float(nose.temperature_K[0])
+            T_parent = T_nose + PARENT_HEIGHT * (grid[-1] - T_nose)
+            t_start = np.exp(np.interp(T_parent, grid[ok], np.log(start[ok])))
+            labels.append((result.parent, T_parent, t_start / REGION_GAP, "right"))
+    lines = [float(v) for v in result.critical_K.values() if np.isfinite(v)]
+    room = REGION_ROOM * (grid[-1] - grid[0])
+    seen = set()
+    for T, t_end, phases in result.regions:
+        text = " + ".join(phases)
+        if text not in seen and all(abs(T - line) >= room for line in lines):
+            seen.add(text)
+            labels.append((text, T, REGION_GAP * t_end, "left"))
+    if result.athermal is not None and "Ms" in result.critical_K:
+        ms = float(result.critical_K["Ms"])
+        if grid[0] < ms:
+            labels.append((result.athermal, 0.5 * (ms + max(grid[0], float(result.critical_K.get("M90", grid[0])))),
+                           None, "center"))
+    return tuple(labels)
+
+
 def _label_regions(ax, result: TTTResult, units, x_range):
     """The phase regions in words, where the computed curves put them."""
     lo, hi = x_range
-    for text, T_K, t_s, align in result.regions:
+    for text, T_K, t_s, align in region_labels(result):
         y = float(to_units(kelvin_to_celsius(T_K), units))
         if t_s is None:
             ax.text(0.5, y, literal(text), transform=ax.get_yaxis_transform(), ha=align, **REGION_STYLE)

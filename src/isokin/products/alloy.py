@@ -7,6 +7,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from ..errors import InputError
+
 #: How close to the highest upper temperature the default grid ends, K: the times diverge there.
 UPPER_MARGIN_K = 0.5
 
@@ -51,6 +53,9 @@ class Alloy:
     options : dict
         What builds the alloy again from its composition (a steel's grain size, methods,
         kinetic model and coefficients, calibration), for sampling and fitting.
+    builder : callable or None
+        ``builder(alloy, mass_percent)``: the same alloy for another analysis (or a batch of
+        them), with its own options; None where the alloy has no composition (a steel has).
     carbon_balance : CarbonBalance or None
         How the carbon of the remaining austenite follows the products (steels): the
         martensite of the final quench forms from austenite of that carbon.
@@ -75,6 +80,7 @@ class Alloy:
     parent: str = "untransformed"
     composition: object = None
     options: dict = field(default_factory=dict)
+    builder: object = None
     carbon_balance: object = None
     valid: object = None
 
@@ -85,3 +91,30 @@ class Alloy:
 
     def replace(self, **changes) -> Alloy:
         return dataclasses.replace(self, **changes)
+
+    @property
+    def calibration_parameters(self) -> dict:
+        """``{"product.parameter": current value}`` of every parameter a calibration may vary."""
+        return {f"{p.name}.{k}": v for p in self.products for k, v in p.calibration_parameters.items()}
+
+    def with_parameters(self, values: dict) -> Alloy:
+        """The alloy with calibration parameters set (``{"bainite.factor": 2.0}``); arrays give
+        a batch of parameter sets, and every product takes that batch."""
+        if not values:
+            return self
+        known = self.calibration_parameters
+        by_product = {}
+        for name, value in values.items():
+            if name not in known:
+                raise KeyError(name)
+            product, _, parameter = name.partition(".")
+            by_product.setdefault(product, {})[parameter] = value
+        batch = np.broadcast_shapes(self.batch_shape, *(np.shape(v) for v in values.values()))
+        return self.replace(products=tuple(p.varied(by_product.get(p.name, {}), batch) for p in self.products))
+
+    def with_composition(self, mass_percent) -> Alloy:
+        """The same alloy for another analysis or a batch of analyses (mass %, element to a
+        number or an array per heat), with its own options and calibration."""
+        if self.builder is None:
+            raise InputError(None, "composition", f"this alloy (model = '{self.model}') has no composition to vary")
+        return self.builder(self, mass_percent)

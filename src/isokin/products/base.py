@@ -92,8 +92,17 @@ class Product(Protocol):
     lower_K : float or ndarray
         The product is not formed below this temperature (for example Ms); 0 when unbounded.
     separable : bool
-        True where the time separates as t = F(T) S(X) (then :meth:`time_factor`,
-        :meth:`reaction_term` and :meth:`reaction_term_inverse` give F, S and S^-1).
+        True where the time separates as t = F(T) S(X) with one S for the whole batch (then
+        :meth:`time_factor`, :meth:`reaction_term` and :meth:`reaction_term_inverse` give F,
+        S and S^-1).
+    capped : bool
+        True where the product stops at an equilibrium share of the parent below all of it
+        (proeutectoid ferrite: :meth:`equilibrium_fraction`).
+    calibration_parameters : dict of str to float
+        The parameters a calibration may vary and their current values (a factor is
+        relative to the product as it is, 1).
+    default_calibration : tuple of str
+        Those a calibration varies unless told otherwise.
     """
 
     name: str
@@ -110,6 +119,22 @@ class Product(Protocol):
 
     @property
     def separable(self) -> bool: ...
+
+    @property
+    def capped(self) -> bool: ...
+
+    @property
+    def calibration_parameters(self) -> dict: ...
+
+    def varied(self, values: dict, batch_shape=()):
+        """A copy with calibration parameters set (``{"factor": 2.0}``; arrays give a batch of
+        parameter sets) and broadcast to ``batch_shape``."""
+        ...
+
+    def equilibrium_fraction(self, T_K) -> np.ndarray:
+        """Share of the parent it reaches at completion at T_K (1 unless :attr:`capped`;
+        batch axes lead)."""
+        ...
 
     def time_to_fraction(self, T_K, X) -> np.ndarray:
         """Seconds of isothermal hold at T_K to reach fraction X (0 < X < 1); ``inf`` where
@@ -172,13 +197,4 @@ class ReportsNucleus(Protocol):
 
     def nucleus_table(self, undercoolings_K) -> dict:
         """Undercooling (K), r* (m), dG* (J), dG*/kT and ln I at undercoolings below its upper temperature."""
-        ...
-
-
-@runtime_checkable
-class HasEquilibriumFraction(Protocol):
-    """A product that stops at an equilibrium fraction of the parent (proeutectoid ferrite)."""
-
-    def equilibrium_fraction(self, T_K) -> np.ndarray:
-        """Share of the parent it reaches at completion at T_K (batch axes lead)."""
         ...

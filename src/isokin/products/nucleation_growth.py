@@ -7,6 +7,7 @@ Every parameter may be an array, so a batch of parameter sets is one numpy pass.
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass
 from types import SimpleNamespace
 
@@ -123,8 +124,38 @@ class NucleationGrowthProduct:
 
     @property
     def separable(self):
-        """t = F(T) S(X) holds exactly when no incubation time is added."""
-        return not np.any(self._fields["incubation_time_s"])
+        """t = F(T) S(X) with one S for the batch: no incubation time added and one Avrami exponent."""
+        n = np.asarray(self.exponent)
+        return not np.any(self._fields["incubation_time_s"]) and bool(np.all(n == n.flat[0]))
+
+    #: It takes all of the parent at completion (no equilibrium share below it).
+    capped = False
+
+    #: What a calibration may vary (the interface energy stands in for it with its shape factor).
+    CALIBRATION = ("interface_energy_J_m2", "diffusion_prefactor_m2_s", "nucleation_activation_J_mol",
+                   "diffusion_activation_J_mol")
+
+    #: What a calibration varies unless told otherwise.
+    default_calibration = ("interface_energy_J_m2", "diffusion_prefactor_m2_s")
+
+    @property
+    def calibration_parameters(self):
+        return {name: float(np.mean(getattr(self.params, name))) for name in self.CALIBRATION}
+
+    def varied(self, values, batch_shape=()):
+        """A copy with some of :attr:`CALIBRATION` set (arrays give a batch of parameter sets),
+        broadcast to ``batch_shape``."""
+        unknown = set(values) - set(self.CALIBRATION)
+        if unknown:
+            raise KeyError(sorted(unknown)[0])
+        params = dataclasses.replace(self.params, **{k: np.asarray(v, dtype=float) for k, v in values.items()})
+        lower = np.broadcast_to(self._lower, np.broadcast_shapes(self._lower.shape, batch_shape))
+        return NucleationGrowthProduct(self.name, params, lower)
+
+    def equilibrium_fraction(self, T_K):
+        """1: the product takes all of the parent at completion (batch axes lead)."""
+        T, q = as_query(T_K)
+        return np.ones(np.broadcast_shapes(T.shape, self._batch_shape + (1,) * max(q - len(self._batch_shape), 0)))
 
     def _upper_temperature(self):
         p, f = self.params, self._fields

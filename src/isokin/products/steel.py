@@ -477,6 +477,7 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         parent="austenite",
         composition=comp,
         options={**options, "kinetics": coefficients, "calibration": calibration},
+        builder=rebuild,
         carbon_balance=carbon_balance,
         valid=None if batch == () else np.broadcast_to(valid, batch),
     )

@@ -274,6 +274,7 @@ class SteelProduct:
         grain = np.asarray(grain_size_astm, dtype=float)
         upper = np.asarray(upper_K, dtype=float)
         lower = np.asarray(lower_K, dtype=float)
+        self._given = (grain, upper, lower)
         for label, value in (("grain_size_astm", grain), ("upper_K", upper), ("lower_K", lower)):
             if not np.all(np.isfinite(value)):
                 raise ValueError(f"{label} of {name} must be finite")
@@ -311,6 +312,40 @@ class SteelProduct:
     @property
     def batch_shape(self):
         return self._batch_shape
+
+    @property
+    def capped(self):
+        """Whether the product stops at an equilibrium share (proeutectoid ferrite)."""
+        return self.equilibrium is not None
+
+    #: What a calibration varies unless told otherwise.
+    default_calibration = ("factor",)
+
+    #: What a calibration may vary: a factor on the time (relative), Q and n.
+    @property
+    def calibration_parameters(self):
+        c = self.coefficients
+        return {"factor": 1.0, "activation_energy_cal_mol": float(np.mean(c.activation_energy_cal_mol)),
+                "undercooling_exponent": float(np.mean(c.undercooling_exponent))}
+
+    def varied(self, values, batch_shape=()):
+        """A copy with ``factor`` (a multiplier on the present one), ``activation_energy_cal_mol``
+        or ``undercooling_exponent`` set (arrays give a batch of parameter sets), broadcast to
+        ``batch_shape``."""
+        changes = {}
+        for name, value in values.items():
+            value = np.asarray(value, dtype=float)
+            if name == "factor":
+                changes["factor"] = np.asarray(self.coefficients.factor) * value
+            elif name == "activation_energy_cal_mol":
+                changes["activation_energy_J_mol"] = value * CALORIE_J
+            elif name == "undercooling_exponent":
+                changes["undercooling_exponent"] = value
+            else:
+                raise KeyError(name)
+        grain, upper, lower = (np.broadcast_to(a, np.broadcast_shapes(a.shape, batch_shape)) for a in self._given)
+        return SteelProduct(self.name, self.coefficients.replace(**changes), self.composition, grain, upper, lower,
+                            self.equilibrium, self.model, self.calibrated_ranges)
 
     @property
     def upper_K(self):

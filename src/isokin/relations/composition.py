@@ -153,6 +153,14 @@ class Composition:
         """Element symbol to mass percent, for every element of :data:`ELEMENTS`."""
         return {name: getattr(self, name) for name in ELEMENTS}
 
+    def analysis(self) -> dict[str, float]:
+        """The heat analysis of one steel as plain numbers: carbon and every element present.
+
+        >>> Composition.from_dict({"C": 0.4, "Cr": 1.0}).analysis()
+        {'C': 0.4, 'Cr': 1.0}
+        """
+        return {e: float(v) for e, v in self.as_dict().items() if e == "C" or float(v) > 0.0}
+
 
 def range_warnings(
     composition: Composition, ranges: Mapping[str, tuple[float, float]], source: str
