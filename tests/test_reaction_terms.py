@@ -18,6 +18,7 @@ Kirkaldy & Venugopalan (no alloying), c = 12 beyond the largest of their low-all
 """
 
 import math
+import warnings
 from functools import lru_cache
 
 import mpmath
@@ -120,9 +121,9 @@ def test_tabulated_and_direct_paths_match_mpmath_at_fractions_crowding_both_ends
 JUST_ABOVE_HALF = [0.5 + 2.0**-20, 0.51, 0.55, 0.6, 0.7]
 
 
-#: Relative precision just above X = 1/2, where S is formed as S(1/2) + G(1/2) - G(1 - X) and
-#: digits are lost as exp(c) grows (the bound the module docstring states).
-ABOVE_HALF_PRECISION = {4.0: 1e-12, 12.0: 2e-10}
+#: Relative precision of the table just above X = 1/2, where exp(c (1 - x)**2) is steepest
+#: against the spacing of the nodes (the bound the module docstring states).
+ABOVE_HALF_PRECISION = {4.0: 1e-12, 12.0: 1e-10}
 
 
 @pytest.mark.parametrize("c", RETARDATIONS)
@@ -190,6 +191,30 @@ def _mp_asymmetry(X, p, c):
         while points[-1] * 10 < 0.5:
             points.append(points[-1] * 10)
         return float(mpmath.quad(integrand, points + [mpmath.mpf(1) / 2]))
+
+
+@pytest.mark.parametrize("c", [30.0, 43.0])
+@pytest.mark.parametrize("p", EXPONENTS)
+def test_a_very_strong_retardation_stays_exact_and_rising(p, c):
+    # A Kirkaldy-Venugopalan bainite term for a high-chromium steel far outside the model's
+    # range (c = 43 for 27 % Cr): S(1) ~ exp(c) dwarfs S just above 1/2, which must still be
+    # found without a difference of the two (once that difference gave negative S).
+    # Reference: mpmath.quad; the direct path to 1e-12, the table to 2e-8 (its cubic steps in
+    # w against the steep exponential, as the module docstring states).
+    X = np.array(JUST_ABOVE_HALF + [0.9, 0.99, 1.0 - 1e-6])
+    reference = np.array([mp_S(x, p, c) for x in X])
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        term = ReactionTerm(p, c)
+        cs = np.full(X.shape, c)
+        cs[0] = c + 0.5
+        direct = values(X, p, cs)
+        back = inverse_values(direct, p, cs)
+    np.testing.assert_allclose(direct[1:], reference[1:], rtol=1e-12, atol=0.0)
+    np.testing.assert_allclose(term(X), reference, rtol=2e-8, atol=0.0)
+    assert np.all(np.diff(term(np.linspace(0.0, 1.0, 4001))) > 0.0)
+    np.testing.assert_allclose(1.0 - back, 1.0 - X, rtol=1e-10)
+    np.testing.assert_allclose(1.0 - term.inverse(term(X)), 1.0 - X, rtol=1e-7)
 
 
 @pytest.mark.parametrize("c", [c for c in RETARDATIONS if c != 0.0])
@@ -283,8 +308,8 @@ def _brentq_fraction(S, p, c):
 def test_inverse_paths_against_brentq(p, c):
     # Reference: scipy.optimize.brentq on the forward term. The tabulated inverse (one c) and
     # the direct inverse (an array of c, safeguarded Newton) must both find the root. The
-    # tolerance on y = min(X, 1 - X) is 1e-11 relative; 1e-10 for c = 12, whose upper half
-    # inherits S(1)'s rounding (S(1) ~ 1.5e5 against S ~ 5 just above 1/2).
+    # tolerance on y = min(X, 1 - X) is 1e-11 relative; 1e-10 for c = 12, whose upper half's
+    # table carries the error of its cubic steps against exp(c (1 - x)**2) (~4e-11).
     term = reaction_term(p, c)
     X = np.array([1e-9, 1e-4, 0.02, 0.25, 0.49, 0.51, 0.75, 0.98, 1 - 1e-4, 1 - 1e-9])
     S = term(X)
