@@ -273,3 +273,16 @@ def test_a_batch_with_heats_that_cannot_be_computed_returns_the_others():
     np.testing.assert_allclose(result.times_s["total"][0], isokin.ttt(single, points=40).times_s["total"], rtol=1e-12)
     with pytest.raises(isokin.InputError, match="Ae3 from Andrews"):
         isokin.steel({"C": 0.4, "Mn": 0.8, "Ti": 3.0}, 7.0)
+
+
+def test_compute_never_asks_which_model_it_holds():
+    # Everything compute needs is on the product's interface: no hasattr on anything, and
+    # isinstance only on plain containers (a path or a list of them).
+    plain = {"list", "tuple", "dict", "str", "int", "float", "bool"}
+    for path in (SRC / "compute").glob("*.py"):
+        for node in ast.walk(ast.parse(path.read_text(encoding="utf-8"))):
+            if isinstance(node, ast.Call) and isinstance(node.func, ast.Name):
+                assert node.func.id != "hasattr", f"{path.name}: hasattr"
+                if node.func.id == "isinstance":
+                    kinds = node.args[1].elts if isinstance(node.args[1], ast.Tuple) else [node.args[1]]
+                    assert all(isinstance(k, ast.Name) and k.id in plain for k in kinds), f"{path.name}: isinstance"

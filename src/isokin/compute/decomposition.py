@@ -37,7 +37,7 @@ from ..results import OVERALL, HoldResult
 WAIT_FRACTION = 0.99
 #: Gauss-Legendre nodes for each product's share of a concurrent decomposition.
 _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(24)
-_ILLINOIS_STEPS = 40
+_ROOT_STEPS = 40
 
 
 class _PerProduct(dict):
@@ -134,8 +134,9 @@ class Decomposition:
         """Seconds until the total reaches ``share`` of what can transform at T (0 < share < 1);
         ``inf`` where nothing can transform. Broadcasts ``share`` against T.
 
-        Where one product alone can form, it is that product's own time (closed form); where
-        several can, the root of the total in ln t, bracketed by each product alone.
+        Where one product alone can form, or where the first of a sequence reaches the share
+        before the next begins, it is that product's own time (closed form); otherwise the root
+        of the total in ln t, bracketed by each product alone.
         """
         W = self.transformable
         share = np.asarray(share, dtype=float)
@@ -152,6 +153,8 @@ class Decomposition:
                     t = self.delays[p.name] + p.time_to_fraction(self.T, share)
                     np.copyto(result, np.broadcast_to(t, shape), where=mine)
         several = np.broadcast_to(active > 1, shape)
+        if several.any():
+            several = several & ~self._first_alone(share, target, shape, several, result)
         if not several.any():
             return result
         # Brackets from each product alone: the total is at least any one product's share,
@@ -173,14 +176,39 @@ class Decomposition:
         lo = np.where(solvable, np.maximum(lo, 1e-300), 1.0)
         hi = np.where(solvable, np.maximum(hi, lo), 1.0)
         idx = np.flatnonzero(solvable)
-        root = _illinois(self._total_at(shape, idx), np.log(lo).ravel(), np.log(hi).ravel(), target.ravel(),
-                         idx).reshape(shape)
+        total, sloped = self._total_at(shape, idx)
+        root = _bracketed_root(total, sloped, np.log(lo).ravel(), np.log(hi).ravel(), target.ravel(), idx).reshape(shape)
         np.copyto(result, np.exp(root), where=solvable)
         return result
 
+    def _first_alone(self, share, target, shape, several, result):
+        """Where the only product that starts at once reaches the target before any other
+        begins (proeutectoid ferrite short of its share, pearlite still waiting): its own time,
+        written into ``result``; returns where that held."""
+        started = {p.name: (self.caps[p.name] > 0.0) & (self.delays[p.name] == 0.0) for p in self.alloy.products}
+        count = sum(s.astype(int) for s in started.values())
+        done = np.zeros(shape, dtype=bool)
+        for p in self.alloy.products:
+            lone = several & np.broadcast_to((count == 1) & started[p.name], shape)
+            if not lone.any():
+                continue
+            cap = self.caps[p.name]
+            with np.errstate(divide="ignore", invalid="ignore"):
+                need = np.where(cap > 0.0, target / cap, np.inf)
+            reachable = lone & (need < 1.0)
+            t = np.broadcast_to(p.time_to_fraction(self.T, np.where(reachable, need, 0.5)), shape)
+            others = [np.where(self.caps[q.name] > 0.0, self.delays[q.name], np.inf) for q in self.alloy.products
+                      if q is not p]
+            first_other = np.broadcast_to(np.minimum.reduce(others) if others else np.inf, shape)
+            ok = reachable & (t <= first_other)
+            np.copyto(result, t, where=ok)
+            done |= ok
+        return done
+
     def _total_at(self, shape, idx):
-        """total(t, idx): the total at times t of the points idx of the flattened shape, from
-        the products that can form at some of those points.
+        """(total(t, idx), sloped): the total at times t of the points idx of the flattened shape,
+        from the products that can form at some of those points, and whether it also gives its
+        slope in ln t (``total(t, idx, slope=True)``).
 
         Where every such product is separable with a reaction term shared by the batch (Li's
         S(X); Kirkaldy & Venugopalan's ferrite and pearlite; JMAK with one exponent),
@@ -197,23 +225,35 @@ class Decomposition:
                 start = np.broadcast_to(self.delays[p.name], shape).ravel()
                 parts.append((p, factor, cap, start, float(p.reaction_term(1.0))))
 
-            def total(t, idx):
-                remaining = 1.0
+            def total(t, idx, slope=False):
+                """The total at t (and, with ``slope``, its derivative in ln t)."""
+                left, rates = [], []
                 for p, factor, cap, start, s_end in parts:
                     with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
                         s = np.maximum(t - start[idx], 0.0) / factor[idx]
                     s = np.where(np.isfinite(s), np.minimum(s, s_end), np.where(np.isnan(s), 0.0, s_end))
-                    remaining = remaining * (1.0 - cap[idx] * p.reaction_term_inverse(s))
-                return 1.0 - remaining
+                    x = p.reaction_term_inverse(s)
+                    left.append(1.0 - cap[idx] * x)
+                    if slope:
+                        with np.errstate(divide="ignore", invalid="ignore"):
+                            rates.append(np.where((s > 0.0) & (s < s_end), cap[idx] * p.reaction_rate_shape(x)
+                                                  / factor[idx], 0.0))
+                remaining = np.prod(left, axis=0)
+                if not slope:
+                    return 1.0 - remaining
+                with np.errstate(divide="ignore", invalid="ignore"):
+                    growth = sum(r * np.prod([q for j, q in enumerate(left) if j != i], axis=0)
+                                 for i, r in enumerate(rates))
+                return 1.0 - remaining, t * growth
 
-            return total
+            return total, True
 
-        def total_full(t, idx):
+        def total_full(t, idx, slope=False):
             t_full = np.zeros(int(np.prod(shape)))
             t_full[idx] = t
             return self.total(t_full.reshape(shape)).ravel()[idx]
 
-        return total_full
+        return total_full, False
 
     def shares(self, t_s):
         """Each product's share of the parent after t_s seconds (they sum to :meth:`total`)."""
@@ -446,12 +486,15 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
                       warnings=tuple(alloy.warnings), inputs=alloy.inputs, provenance=dict(alloy.provenance))
 
 
-def _illinois(total, a, b, target, idx):
-    """Vectorised Illinois regula falsi for total(e^u) = target in u = ln t on [a, b], per
-    point, to 1e-9 in ln t; points drop out as they converge. Returns u for every point.
+def _bracketed_root(total, sloped, a, b, target, idx):
+    """Vectorised root of total(e^u) = target in u = ln t on [a, b], per point, to 1e-9 in
+    ln t; points drop out as they converge. Returns u for every point.
 
-    An end that meets the target to rounding is the root; an upper end that falls short by
-    rounding (a bracket from one product alone, exact in theory) is moved up until it holds.
+    Newton steps on the slope where ``total`` gives one (``sloped``: ``total(t, idx, slope=True)``), each
+    kept inside the bracket that the signs of the residuals shrink, else a bisection;
+    without a slope, Illinois regula falsi. An end that meets the target to rounding is the
+    root; an upper end that falls short by rounding (a bracket from one product alone, exact
+    in theory) is moved up until it holds.
     """
     u = b.copy()
     a, b, target = a[idx], b[idx], target[idx]
@@ -468,7 +511,36 @@ def _illinois(total, a, b, target, idx):
     u[idx] = np.where(np.abs(fa) <= tiny, a, b)
     going = ~at_end
     idx, a, b, fa, fb, target = idx[going], a[going], b[going], fa[going], fb[going], target[going]
-    for _ in range(_ILLINOIS_STEPS):
+    if idx.size == 0:
+        return u
+    if not sloped:
+        return _illinois(total, a, b, fa, fb, target, idx, u)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        x = np.where(fb != fa, b - fb * (b - a) / (fb - fa), 0.5 * (a + b))
+    x = np.where(np.isfinite(x) & (x > np.minimum(a, b)) & (x < np.maximum(a, b)), x, 0.5 * (a + b))
+    low, high = np.minimum(a, b), np.maximum(a, b)
+    rising = fb > fa  # the total grows with time: below the root the residual is negative
+    for _ in range(_ROOT_STEPS):
+        if idx.size == 0:
+            break
+        f, df = total(np.exp(x), idx, slope=True)
+        f = f - target
+        below = (f < 0.0) == rising
+        low, high = np.where(below, x, low), np.where(below, high, x)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            step = x - f / df
+        inside = np.isfinite(step) & (step >= low) & (step <= high)  # a root found lands on an end
+        x_new = np.where(f == 0.0, x, np.where(inside, step, 0.5 * (low + high)))
+        u[idx] = x_new
+        going = (np.abs(x_new - x) >= 1e-9) & (f != 0.0)
+        idx, x, low, high, target, rising = (idx[going], x_new[going], low[going], high[going], target[going],
+                                              rising[going])
+    return u
+
+
+def _illinois(total, a, b, fa, fb, target, idx, u):
+    """Illinois regula falsi on the brackets of :func:`_bracketed_root` (no slope given)."""
+    for _ in range(_ROOT_STEPS):
         if idx.size == 0:
             break
         with np.errstate(divide="ignore", invalid="ignore"):

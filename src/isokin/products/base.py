@@ -167,6 +167,10 @@ class Product(Protocol):
         """X at which S(X) reaches S."""
         ...
 
+    def reaction_rate_shape(self, X) -> np.ndarray:
+        """dX/dS, so that dX/dt = reaction_rate_shape(X) / F(T) (0 at X = 0 and X = 1)."""
+        ...
+
 
 @runtime_checkable
 class AthermalProduct(Protocol):

@@ -291,6 +291,11 @@ class NucleationGrowthProduct:
         (S,), f = self._query(S)
         return jmak.reaction_term_inverse(S, self._exponent(f))
 
+    def reaction_rate_shape(self, X):
+        """dX/dS = n (1 - X) (-ln(1 - X))^((n - 1)/n): JMAK's rate at a time scale of 1 s."""
+        (X,), f = self._query(X)
+        return jmak.rate(X, 0.0, self._exponent(f))
+
 
 #: Default lower end of the diagram for physical products, as a fraction of the upper
 #: temperature in K: below about 0.4 of the equilibrium temperature diffusion in metals is

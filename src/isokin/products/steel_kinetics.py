@@ -402,6 +402,10 @@ class SteelProduct:
     def reaction_term_inverse(self, S):
         return self._term.inverse(S)
 
+    def reaction_rate_shape(self, X):
+        """dX/dS of the shared reaction term (only where :attr:`separable`)."""
+        return self._term.rate_shape(X)
+
     #: Distinct fraction arrays whose S(X) a batch with its own retardation per member keeps:
     #: a diagram asks for the same few fractions on every block of temperatures.
     _S_MEMORY = 16
