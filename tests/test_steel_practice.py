@@ -160,7 +160,7 @@ def _upper_nose(composition, grain, model):
     return nose(alloy, T, t, np.isfinite(t) & (T > bainite_start_K(alloy)))
 
 
-low_alloy = st.fixed_dictionaries({"C": st.floats(0.25, 0.55), "Mn": st.floats(0.5, 1.2), "Si": st.floats(0.15, 0.35),
+low_alloy = st.fixed_dictionaries({"C": st.floats(0.25, 0.45), "Mn": st.floats(0.5, 1.2), "Si": st.floats(0.15, 0.35),
                                    "Ni": st.floats(0.0, 1.0), "Cr": st.floats(0.0, 1.0), "Mo": st.floats(0.0, 0.3)})
 
 
@@ -168,10 +168,23 @@ low_alloy = st.fixed_dictionaries({"C": st.floats(0.25, 0.55), "Mn": st.floats(0
 @given(steel=low_alloy, element=st.sampled_from(["Mo", "Cr"]), more=st.floats(0.1, 0.4),
        model=st.sampled_from(MODELS))
 def test_molybdenum_and_chromium_slow_the_upper_nose_and_move_it(steel, element, more, model):
-    # Common practice: Mo and Cr delay ferrite and pearlite and shift their C-curve.
+    # Common practice: Mo and Cr delay ferrite and pearlite and shift their C-curve. Held up
+    # to 0.45 % C; nearer the eutectoid the models fail it (the next check).
     T0, t0 = _upper_nose(steel, 7.0, model)
     T1, t1 = _upper_nose({**steel, element: steel[element] + more}, 7.0, model)
     assert t1 > t0 and abs(T1 - T0) > 0.1
+
+
+@pytest.mark.xfail(strict=True, reason="near the eutectoid, Mo raises Andrews' Ae3 (+31.5 K per %) and with it the "
+                   "lever-rule share of proeutectoid ferrite (4 % to 13 % here), so 1 % of the part is reached sooner "
+                   "although ferrite and pearlite each form more slowly")
+def test_molybdenum_slows_the_upper_nose_near_the_eutectoid():
+    # Common practice, as above; a 0.53 % C Cr steel with 0.25 % Mo added, default kinetics
+    # (Li et al. 1998 fails it the same way at other analyses near 0.55 % C).
+    steel = {"C": 0.53, "Mn": 1.0, "Si": 0.25, "Cr": 0.75}
+    _, t0 = _upper_nose(steel, 7.0, "kirkaldy_venugopalan_1984")
+    _, t1 = _upper_nose({**steel, "Mo": 0.25}, 7.0, "kirkaldy_venugopalan_1984")
+    assert t1 > t0
 
 
 @settings(max_examples=5, deadline=None)

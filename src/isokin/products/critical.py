@@ -22,6 +22,10 @@ from ..relations.composition import Composition
 from ..relations.steel_critical import (
     ae1_andrews_1965,
     ae3_andrews_1965,
+    andrews_ae1_C,
+    andrews_ae3_C,
+    andrews_ae3_without_carbon_C,
+    andrews_eutectoid_carbon,
     bs_kirkaldy_venugopalan_1984,
     bs_li_1998,
     bs_steven_haynes_1956,
@@ -100,12 +104,15 @@ class SteelCritical:
     ``bs_K`` is the Bs line (the chosen correlation, capped at Ae1), ``bainite_start_K`` the
     Bs of the kinetic model (capped the same way); either is 0 where it falls below absolute
     zero (no bainite), and ``ms_K`` 0 where Ms does (no martensite). ``valid`` is False for
-    heats whose Ae1 or Ae3 cannot be.
+    heats whose Ae1 or Ae3 cannot be. ``ae3_without_carbon_K`` (Andrews' Ae3 less its carbon
+    term) and ``eutectoid_carbon`` (mass %) are what the lever rule reads.
     """
 
     ae1_K: np.ndarray
     ae3_K: np.ndarray
     hypoeutectoid: np.ndarray
+    ae3_without_carbon_K: np.ndarray
+    eutectoid_carbon: np.ndarray
     ms_K: np.ndarray
     bs_K: np.ndarray
     bainite_start_K: np.ndarray
@@ -131,9 +138,11 @@ def critical_temperatures(composition: Composition, ms_method=DEFAULT_MS_METHOD,
     bs_function, bs_label, bs_range = BS_METHODS[bs_method]
     kinetic = kinetic_bs_method or bs_method
     kinetic_function, kinetic_label, _ = BS_METHODS[kinetic]
-    ae1 = np.asarray(ae1_andrews_1965(c), dtype=float)
-    hypo = np.asarray(c.C < eutectoid_carbon_andrews_1965(c))
-    ae3 = np.asarray(_hypoeutectoid_ae3(c), dtype=float)
+    ae3_base_C, ae1_C = (np.asarray(f(c), dtype=float) for f in (andrews_ae3_without_carbon_C, andrews_ae1_C))
+    eutectoid = np.asarray(andrews_eutectoid_carbon(ae3_base_C, ae1_C))
+    ae1 = celsius_to_kelvin(ae1_C)
+    hypo = np.asarray(c.C < eutectoid)
+    ae3 = np.where(hypo, celsius_to_kelvin(andrews_ae3_C(ae3_base_C, c.C)), ae1)
     warnings = []
     hot = celsius_to_kelvin(HIGHEST_CRITICAL_C)
     invalid = np.zeros(c.shape, dtype=bool)
@@ -172,6 +181,7 @@ def critical_temperatures(composition: Composition, ms_method=DEFAULT_MS_METHOD,
             warnings.append(f"{label} is {hottest:.0f} °C, above Ae1 (Andrews 1965) "
                             f"{kelvin_to_celsius(float(np.ravel(ae1)[first])):.0f} °C{heats_text(above)}: bainite does "
                             "not form above the eutectoid temperature, so it is capped at Ae1")
+    bs_uncapped = bs
     bs, start = np.minimum(bs, ae1), np.minimum(start, ae1)
     high_ms = (ms >= ae1) & ~invalid
     if np.any(high_ms):
@@ -182,9 +192,10 @@ def critical_temperatures(composition: Composition, ms_method=DEFAULT_MS_METHOD,
                         "which real steels do not: Ms and the martensite lines are unreliable here")
     methods = {"Ae3": "Andrews (1965)" + (" (equals Ae1: no proeutectoid ferrite at this carbon)"
                                            if not np.any(hypo) else ""),
-               "Ae1": "Andrews (1965)", "Bs": bs_label + (" (capped at Ae1)" if np.any(bs_function(c) > ae1) else ""),
+               "Ae1": "Andrews (1965)", "Bs": bs_label + (" (capped at Ae1)" if np.any(bs_uncapped > ae1) else ""),
                "Ms": ms_label, "bainite_start": f"{kinetic_label}, the kinetic model's own"}
     ranges = ("Andrews (1965), Ae1/Ae3", ms_range, bs_range) + ((BS_METHODS[kinetic][2],) if kinetic != bs_method
                                                                   else ())
-    return SteelCritical(ae1_K=ae1, ae3_K=ae3, hypoeutectoid=hypo, ms_K=ms, bs_K=bs, bainite_start_K=start,
+    return SteelCritical(ae1_K=ae1, ae3_K=ae3, hypoeutectoid=hypo, ae3_without_carbon_K=celsius_to_kelvin(ae3_base_C),
+                         eutectoid_carbon=eutectoid, ms_K=ms, bs_K=bs, bainite_start_K=start,
                          valid=~invalid, methods=methods, range_keys=ranges, warnings=tuple(warnings))

@@ -27,10 +27,7 @@ from ..relations.steel_critical import (
     CALIBRATED_RANGES,
     FERRITE_CARBON_MASS_PERCENT,
     KOISTINEN_MARBURGER_ALPHA_PER_K,
-    andrews_ae1_C,
     austenite_carbon_mass_balance,
-    andrews_ae3_without_carbon_C,
-    eutectoid_carbon_andrews_1965,
     lever_rule_ferrite_fraction,
 )
 from .alloy import UPPER_MARGIN_K, Alloy
@@ -78,10 +75,10 @@ class LeverRuleFerrite:
 
     method = "lever rule on the Ae3 line of Andrews (1965), eutectoid carbon of the same, 0.02 % C in ferrite"
 
-    def __init__(self, composition: Composition):
-        self._arrays = (andrews_ae3_without_carbon_C(composition), andrews_ae1_C(composition),
-                        np.asarray(composition.C), eutectoid_carbon_andrews_1965(composition))
-        self._batch_ndim = len(composition.shape)
+    def __init__(self, critical, carbon):
+        self._arrays = (kelvin_to_celsius(critical.ae3_without_carbon_K), kelvin_to_celsius(critical.ae1_K),
+                        np.asarray(carbon, dtype=float), critical.eutectoid_carbon)
+        self._batch_ndim = max(np.ndim(a) for a in self._arrays)
 
     def __call__(self, T_K):
         T, q = as_query(T_K)
@@ -202,7 +199,7 @@ def steel_products(composition: Composition, grain, critical, model, coefficient
         "pearlite": (ae1, reconstructive_low),
         "bainite": (np.minimum(start, ae1), ms),
     }
-    lever = LeverRuleFerrite(composition)
+    lever = LeverRuleFerrite(critical, composition.C)
     products = []
     for name, (upper, lower) in windows.items():
         upper = np.where(empty, 0.0, upper)
@@ -356,51 +353,122 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
         grain_size_astm = mass_percent.pop("grain_size_astm")
     comp = _composition(mass_percent)
     grain = _grain(grain_size_astm, comp.shape)
-    batch = np.broadcast_shapes(comp.shape, grain.shape)
     ms_method = _choice("steel.ms_method", ms_method, MS_METHODS, DEFAULT_MS_METHOD)
     bs_method = _choice("steel.bs_method", bs_method, BS_METHODS, DEFAULT_BS_METHOD)
+    model_key, overrides, coefficients = _kinetics(kinetics_model, kinetics, calibration)
+    model = KINETICS_MODELS[model_key]
+    _check_austenitizing(austenitizing_temperature_C)
+
+    critical = critical_temperatures(comp, ms_method, bs_method, model.bainite_start)
+    batch = np.broadcast_shapes(comp.shape, grain.shape, *(np.shape(v) for c in coefficients.values()
+                                                            for v in c.batch_values()))
+    grain = np.broadcast_to(grain, batch)
+    products = steel_products(comp, grain, critical, model, coefficients)
+    martensite = Martensite(np.where(critical.valid, critical.ms_K, 0.0), ms_method=MS_METHODS[ms_method][1],
+                            ms_of_carbon=MsOfCarbon(comp, MS_METHODS[ms_method][0]))
+    lines, line_warnings = _lines(critical, martensite)
+    valid = critical.valid & np.all([p.valid for p in products], axis=0)
+    if np.any(~valid & critical.valid):
+        line_warnings.append(_no_time_scale(model, ~valid & critical.valid, single=batch == ()))
+        products = steel_products(comp, grain, dataclasses.replace(critical, valid=valid), model, coefficients)
+    warnings = [*critical.warnings, *line_warnings,
+                *_analysis_warnings(comp, critical, model, austenitizing_temperature_C)]
+
+    options = {"grain_size_astm": _record(grain if batch != () else float(grain)), "ms_method": ms_method,
+               "bs_method": bs_method, "kinetics_model": model_key}
+    if austenitizing_temperature_C is not None:
+        options["austenitizing_temperature_C"] = austenitizing_temperature_C
+    if inputs is None:
+        inputs = {"composition": {k: _record(v) for k, v in mass_percent.items()}, "steel": dict(options)}
+    carbon_balance = CarbonBalance(np.asarray(comp.C), np.asarray(comp.Si + comp.Al >= CARBIDE_FREE_SI_AL))
+    methods = {k: critical.methods[k] for k in lines if k in critical.methods}
+    km = f"Koistinen-Marburger (1959), alpha = {KOISTINEN_MARBURGER_ALPHA_PER_K} /K, from Ms of {MS_METHODS[ms_method][1]}"
+    methods.update({k: km for k in ("M50", "M90") if k in lines})
+    provenance = {"ms_method": ms_method, "bs_method": bs_method, "kinetics_model": model_key,
+                  **_kinetics_provenance(model, critical, products, overrides), "austenite_carbon": carbon_balance.method}
+    if calibration is not None:
+        provenance["calibration"] = dict(calibration.record)
+    described, default_name = _described(mass_percent, grain, batch)
+    footer = (described + (f", austenitized {austenitizing_temperature_C:g} °C" if austenitizing_temperature_C
+                           is not None else "")
+              + f"; {model.label}, Andrews (1965), Ms {MS_METHODS[ms_method][1]}, Bs {BS_METHODS[bs_method][1]}, "
+                "Koistinen-Marburger (1959)" + ("; calibrated" if calibration is not None else ""))
+    return Alloy(
+        name=name or default_name,
+        model="steel",
+        products=tuple(products),
+        critical_K=lines,
+        critical_methods=methods,
+        default_range_K=_default_range(products, valid, lines),
+        martensite=martensite,
+        inputs=inputs,
+        footer=footer,
+        warnings=tuple(dict.fromkeys(warnings)),
+        provenance=provenance,
+        sequence={"pearlite": "ferrite"},
+        parent="austenite",
+        composition=comp,
+        options={**options, "kinetics": coefficients, "calibration": calibration},
+        builder=rebuild,
+        carbon_balance=carbon_balance,
+        valid=None if batch == () else np.broadcast_to(valid, batch),
+    )
+
+
+def _kinetics(kinetics_model, kinetics, calibration):
+    """The kinetic model's key, the products overridden and the full coefficients: the
+    calibration's kinetics first, ``kinetics`` on top."""
     if calibration is not None:
         if kinetics_model is not None and kinetics_model != calibration.kinetics_model:
             raise InputError(None, "steel.kinetics_model", f"is {kinetics_model!r}, but the calibration was fitted "
                              f"with {calibration.kinetics_model!r}; give that model or none")
         kinetics_model = calibration.kinetics_model
     model_key = _choice("steel.kinetics_model", kinetics_model, KINETICS_MODELS, DEFAULT_KINETICS)
-    model = KINETICS_MODELS[model_key]
-    if austenitizing_temperature_C is not None:
-        lo, hi = AUSTENITIZING_RANGE_C
-        if not lo <= austenitizing_temperature_C <= hi:
-            raise InputError(None, "steel.austenitizing_temperature_C",
-                             f"must lie from {lo:g} to {hi:g} °C, got {austenitizing_temperature_C:g}")
     overrides = {**(calibration.kinetics if calibration is not None else {})}
     for product, change in (kinetics or {}).items():
         base = overrides.get(product, {})
         overrides[product] = change if isinstance(change, Coefficients) or isinstance(base, Coefficients) \
             else {**base, **change}
-    coefficients = kinetics_with(model_key, overrides)
+    return model_key, overrides, kinetics_with(model_key, overrides)
 
-    critical = critical_temperatures(comp, ms_method, bs_method, model.bainite_start)
-    shapes = [np.shape(v) for c in coefficients.values() for v in
-              (c.constant, c.undercooling_exponent, c.activation_energy_J_mol, c.grain_size_coefficient, c.factor,
-               *c.terms.values())]
-    batch = np.broadcast_shapes(batch, *shapes)
-    grain = np.broadcast_to(grain, batch)
-    products = steel_products(comp, grain, critical, model, coefficients)
-    martensite = Martensite(np.where(critical.valid, critical.ms_K, 0.0), ms_method=MS_METHODS[ms_method][1],
-                            ms_of_carbon=MsOfCarbon(comp, MS_METHODS[ms_method][0]))
-    carbon_balance = CarbonBalance(np.asarray(comp.C), np.asarray(comp.Si + comp.Al >= CARBIDE_FREE_SI_AL))
-    lines, warnings = _lines(critical, martensite)
-    valid = critical.valid & np.all([p.valid for p in products], axis=0)
-    if np.any(~valid & critical.valid):
-        no_scale = ~valid & critical.valid
-        text = (f"the {model.label} kinetics has no time scale for this analysis (its ferrite factor is zero without "
-                "Mn, Ni, Cr and Mo): give the Mn of the heat, or choose the Li et al. (1998) kinetics "
-                "(kinetics_model = 'li_1998', --kinetics li_1998)")
-        if not batch:
-            raise InputError(None, "composition", text)
-        warnings.append(text + f"; such heats are left out{heats_text(no_scale)}")
-        products = steel_products(comp, grain, dataclasses.replace(critical, valid=valid), model, coefficients)
-    warnings = list(critical.warnings) + warnings
-    warnings += range_warnings(comp, model.ranges, model.label)
+
+def _kinetics_provenance(model, critical, products, overrides):
+    """What the record says of the kinetics: the model, where each product forms and its coefficients."""
+    return {
+        "kinetics_reference": model.reference,
+        "bainite_start": {"method": critical.methods["bainite_start"],
+                          "temperature_C": _record(np.where(critical.valid, kelvin_to_celsius(critical.bainite_start_K),
+                                                            np.nan))},
+        "product_domains": DOMAINS,
+        "ferrite_equilibrium": LeverRuleFerrite.method,
+        "kinetics": {p.name: p.coefficients.as_dict() for p in products},
+        "kinetics_overridden": sorted(overrides),
+        "kinetics_note": model.provenance,
+    }
+
+
+def _check_austenitizing(temperature_C):
+    if temperature_C is not None:
+        lo, hi = AUSTENITIZING_RANGE_C
+        if not lo <= temperature_C <= hi:
+            raise InputError(None, "steel.austenitizing_temperature_C",
+                             f"must lie from {lo:g} to {hi:g} °C, got {temperature_C:g}")
+
+
+def _no_time_scale(model, heats, single):
+    """The warning for heats the kinetics cannot time (refused outright for a single heat)."""
+    text = (f"the {model.label} kinetics has no time scale for this analysis (its ferrite factor is zero without "
+            "Mn, Ni, Cr and Mo): give the Mn of the heat, or choose the Li et al. (1998) kinetics "
+            "(kinetics_model = 'li_1998', --kinetics li_1998)")
+    if single:
+        raise InputError(None, "composition", text)
+    return text + f"; such heats are left out{heats_text(heats)}"
+
+
+def _analysis_warnings(comp, critical, model, austenitizing_temperature_C):
+    """Calibrated ranges, elements no model reads, hypereutectoid carbon and an austenitizing
+    temperature below full austenite."""
+    warnings = range_warnings(comp, model.ranges, model.label)
     for source in dict.fromkeys(critical.range_keys):
         warnings += range_warnings(comp, CALIBRATED_RANGES[source], source)
     warnings += element_warnings(model, comp, CRITICAL_ELEMENTS)
@@ -417,70 +485,27 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
                   else f"the full-austenite temperature{heats_text(cold)}")
             warnings.append(f"austenitizing at {austenitizing_temperature_C:g} °C is not above {at}: the models "
                             "assume fully austenitized steel, so the diagram does not describe this treatment")
+    return warnings
 
+
+def _default_range(products, valid, lines):
+    """The diagram's default temperature range, K: from below M90 (or M50, or Ms) to the
+    highest product's upper temperature less the margin."""
     uppers = [np.max(np.where(valid, p.upper_K, -np.inf)) for p in products]
     upper = max(float(u) for u in uppers) if np.any(valid) else celsius_to_kelvin(900.0)
-    lowest = np.nanmin(np.asarray(lines.get("M90", lines.get("M50", lines.get("Ms", np.nan))), dtype=float)) \
-        if any(k in lines for k in ("Ms", "M50", "M90")) else np.nan
+    lowest = next((lines[k] for k in ("M90", "M50", "Ms") if k in lines), np.nan)
+    lowest = np.nanmin(np.asarray(lowest, dtype=float))
     lower = max(float(lowest) - BELOW_M90_K if np.isfinite(lowest) else -np.inf, celsius_to_kelvin(LOWEST_DEFAULT_C))
-    if batch == ():
-        analysis = ", ".join(f"{k} {float(v):g}" for k, v in mass_percent.items() if float(v) > 0)
-        described = f"{analysis} mass %, ASTM grain size {float(grain):g}"
-        default_name = "heat analysis " + ", ".join(f"{k} {float(v):g}" for k, v in mass_percent.items())
-    else:
-        described = f"{int(np.prod(batch))} heats"
-        default_name = f"batch of {int(np.prod(batch))} heats"
-    footer = (described + (f", austenitized {austenitizing_temperature_C:g} °C" if austenitizing_temperature_C
-                           is not None else "")
-              + f"; {model.label}, Andrews (1965), Ms {MS_METHODS[ms_method][1]}, Bs {BS_METHODS[bs_method][1]}, "
-                "Koistinen-Marburger (1959)" + ("; calibrated" if calibration is not None else ""))
-    options = {"grain_size_astm": _record(grain if batch != () else float(grain)), "ms_method": ms_method,
-               "bs_method": bs_method, "kinetics_model": model_key}
-    if austenitizing_temperature_C is not None:
-        options["austenitizing_temperature_C"] = austenitizing_temperature_C
-    if inputs is None:
-        inputs = {"composition": {k: _record(v) for k, v in mass_percent.items()},
-                  "steel": {k: v for k, v in options.items()}}
-    methods = {k: critical.methods[k] for k in lines if k in critical.methods}
-    km = f"Koistinen-Marburger (1959), alpha = {KOISTINEN_MARBURGER_ALPHA_PER_K} /K, from Ms of {MS_METHODS[ms_method][1]}"
-    methods.update({k: km for k in ("M50", "M90") if k in lines})
-    provenance = {
-        "ms_method": ms_method,
-        "bs_method": bs_method,
-        "kinetics_model": model_key,
-        "kinetics_reference": model.reference,
-        "bainite_start": {"method": critical.methods["bainite_start"],
-                          "temperature_C": _record(np.where(critical.valid, kelvin_to_celsius(critical.bainite_start_K),
-                                                            np.nan))},
-        "product_domains": DOMAINS,
-        "ferrite_equilibrium": LeverRuleFerrite.method,
-        "kinetics": {p.name: p.coefficients.as_dict() for p in products},
-        "kinetics_overridden": sorted(overrides),
-        "kinetics_note": model.provenance,
-        "austenite_carbon": carbon_balance.method,
-    }
-    if calibration is not None:
-        provenance["calibration"] = dict(calibration.record)
-    return Alloy(
-        name=name or default_name,
-        model="steel",
-        products=tuple(products),
-        critical_K=lines,
-        critical_methods=methods,
-        default_range_K=(lower, upper - UPPER_MARGIN_K),
-        martensite=martensite,
-        inputs=inputs,
-        footer=footer,
-        warnings=tuple(dict.fromkeys(warnings)),
-        provenance=provenance,
-        sequence={"pearlite": "ferrite"},
-        parent="austenite",
-        composition=comp,
-        options={**options, "kinetics": coefficients, "calibration": calibration},
-        builder=rebuild,
-        carbon_balance=carbon_balance,
-        valid=None if batch == () else np.broadcast_to(valid, batch),
-    )
+    return lower, upper - UPPER_MARGIN_K
+
+
+def _described(mass_percent, grain, batch):
+    """The figure footer's description of the steel, and its default name."""
+    if batch != ():
+        return f"{int(np.prod(batch))} heats", f"batch of {int(np.prod(batch))} heats"
+    analysis = ", ".join(f"{k} {float(v):g}" for k, v in mass_percent.items() if float(v) > 0)
+    return (f"{analysis} mass %, ASTM grain size {float(grain):g}",
+            "heat analysis " + ", ".join(f"{k} {float(v):g}" for k, v in mass_percent.items()))
 
 
 def rebuild(alloy: Alloy, mass_percent=None, kinetics=None) -> Alloy:

@@ -159,6 +159,11 @@ class Coefficients:
         """c of exp(c X**2) for the composition."""
         return composition_sum(self.retardation_constant, self.retardation_terms, composition)
 
+    def batch_values(self) -> tuple:
+        """The coefficients that may hold one value per heat (a fitted batch of parameters)."""
+        return (self.constant, self.undercooling_exponent, self.activation_energy_J_mol, self.grain_size_coefficient,
+                self.factor, *self.terms.values())
+
     def elements(self) -> set:
         """Every element the coefficients read."""
         return {e for terms in (self.terms, self.drag_terms, self.retardation_terms) for t in terms

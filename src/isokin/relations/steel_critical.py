@@ -144,9 +144,12 @@ def ae3_andrews_1965(composition: Composition):
     >>> round(float(ae3_andrews_1965(Composition.from_dict({"C": 0.25}))) - 273.15, 2)
     808.5
     """
-    return celsius_to_kelvin(
-        andrews_ae3_without_carbon_C(composition) - 203.0 * np.sqrt(composition.C)
-    )
+    return celsius_to_kelvin(andrews_ae3_C(andrews_ae3_without_carbon_C(composition), composition.C))
+
+
+def andrews_ae3_C(ae3_without_carbon_C, carbon):
+    """Andrews' Ae3 (degrees C) from its carbon-free part and the carbon (mass %)."""
+    return ae3_without_carbon_C - 203.0 * np.sqrt(carbon)
 
 
 def eutectoid_carbon_andrews_1965(composition: Composition):
@@ -185,8 +188,13 @@ def eutectoid_carbon_andrews_1965(composition: Composition):
     >>> round(float(eutectoid_carbon_andrews_1965(Composition.from_dict({}))), 4)
     0.8486
     """
-    gap_C = andrews_ae3_without_carbon_C(composition) - andrews_ae1_C(composition)
-    return (np.maximum(gap_C, 0.0) / 203.0) ** 2
+    return andrews_eutectoid_carbon(andrews_ae3_without_carbon_C(composition), andrews_ae1_C(composition))
+
+
+def andrews_eutectoid_carbon(ae3_without_carbon_C, ae1_C):
+    """The eutectoid carbon (mass %) of :func:`eutectoid_carbon_andrews_1965` from Andrews'
+    carbon-free Ae3 and his Ae1 (degrees C)."""
+    return (np.maximum(ae3_without_carbon_C - ae1_C, 0.0) / 203.0) ** 2
 
 
 #: Carbon in ferrite at the eutectoid temperature, mass % (about 0.02 %: the Fe-C diagram,
