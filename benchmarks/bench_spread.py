@@ -1,5 +1,7 @@
-"""Composition spread speed: 10,000 heats x 3 products x 300 temperatures in one batch pass,
-against a loop over the heats that calls the single-composition path.
+"""Composition spread speed: ``isokin.spread`` of 10,000 heats end to end (sampling, every
+heat's diagram, quantiles, noses and what drives them), and 10,000 heats x 3 products x 300
+temperatures in one batch pass against a loop over the heats that calls the single-composition
+path.
 
     python benchmarks/bench_spread.py
 
@@ -35,6 +37,8 @@ def main():
     grid_C = np.linspace(320.0, 760.0, 300)
     mass = sample_compositions(nominal, ranges, 10_000, seed=1)
     heats = [{k: float(v[i]) for k, v in mass.items()} for i in range(LOOP_SAMPLE)]
+    t_spread = best_of(lambda: isokin.spread(alloy, ranges, samples=10_000, seed=1), REPEATS)
+    print(f"isokin.spread, 10,000 heats end to end: {t_spread:.2f} s (target under 3 s)")
     for decomposition in (False, True):
         options = dict(temperatures_C=grid_C, overall=False, decomposition=decomposition)
         t_batch = best_of(lambda: isokin.ttt(build(mass), **options), REPEATS)

@@ -11,6 +11,8 @@ The public API, the same functions the command line calls::
 Names are imported on first use, so ``import isokin`` stays cheap.
 """
 
+import importlib
+
 __version__ = "0.2.0"
 
 _EXPORTS = {
@@ -48,8 +50,6 @@ __all__ = ["__version__", *_EXPORTS]
 
 def __getattr__(name):
     if name in _EXPORTS:
-        import importlib
-
         value = getattr(importlib.import_module(_EXPORTS[name]), name)
         globals()[name] = value
         return value

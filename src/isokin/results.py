@@ -206,14 +206,14 @@ class TTTResult:
 
     def to_frame(self):
         """Tidy pandas table: [member,] product, fraction, temperature_C, time_s."""
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame(self.curve_columns())
 
     def noses_frame(self):
         """Tidy pandas table of the noses: [member,] product, fraction, nose_temperature_C,
         nose_time_s, nose_inside_range."""
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame(self.nose_columns())
 
@@ -271,7 +271,7 @@ class HoldResult:
     def to_frame(self):
         """Wide pandas table: temperature_C, time_s, one column per phase (shares of the part)
         and, for steels, the carbon and Ms of the austenite left at the end of the hold."""
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         shape = np.shape(self.times_s)
         columns = {"temperature_C": np.ravel(self.temperatures_C), "time_s": np.ravel(self.times_s)}
@@ -321,7 +321,7 @@ class CoolingResult:
 
     def to_frame(self):
         """Tidy pandas table along the paths: path, time_s, temperature_C, and a column per phase."""
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame(self.columns())
 
@@ -346,7 +346,7 @@ class CCTResult:
 
     def to_frame(self):
         """Tidy pandas table: rate_K_s, curve (product or total), edge (start, finish), time_s, temperature_C."""
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame(self.curve_columns())
 
@@ -389,7 +389,7 @@ class PlanResult:
 
     def to_frame(self):
         """The candidates as a pandas table, one row per temperature."""
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame({k: np.asarray(v) for k, v in self.rows.items()})
 
@@ -423,7 +423,7 @@ class FitResult:
 
     def to_frame(self):
         """One row per free parameter: parameter, model value, fitted value, interval."""
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame([{"parameter": n, "model_value": self.model_values[n], "fitted_value": self.values[n],
                               "interval_low": self.intervals[n][0], "interval_high": self.intervals[n][1]}
@@ -492,6 +492,6 @@ class SpreadResult:
         return {k: np.array(v, dtype=object if k == "product" else float) for k, v in rows.items()}
 
     def to_frame(self):
-        import pandas as pd
+        import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame(self.curve_columns())

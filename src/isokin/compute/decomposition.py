@@ -100,10 +100,15 @@ class Decomposition:
         waits_for = self.alloy.sequence.get(name)
         if waits_for is None:
             return np.zeros(np.shape(self.caps[name]))
-        first = self._by_name[waits_for]
-        t_wait = (self.factors[waits_for] * first.reaction_term(WAIT_FRACTION) if first.separable
-                  else first.time_to_fraction(self.T, WAIT_FRACTION))
+        t_wait = self._own_time(self._by_name[waits_for], WAIT_FRACTION)
         return np.where(self.caps[waits_for] > 0.0, t_wait, 0.0)
+
+    def _own_time(self, p, X):
+        """Seconds product ``p`` alone takes to reach its own fraction X (0 < X < 1) at T: F(T) S(X)
+        from the factor already computed where it is separable."""
+        if p.separable:
+            return self.factors[p.name] * p.reaction_term(X)
+        return p.time_to_fraction(self.T, X)
 
     @property
     def transformable(self):
@@ -150,7 +155,7 @@ class Decomposition:
             for p in self.alloy.products:
                 mine = alone & (self.caps[p.name] > 0.0)
                 if mine.any():
-                    t = self.delays[p.name] + p.time_to_fraction(self.T, share)
+                    t = self.delays[p.name] + self._own_time(p, share)
                     np.copyto(result, np.broadcast_to(t, shape), where=mine)
         several = np.broadcast_to(active > 1, shape)
         if several.any():
@@ -170,7 +175,7 @@ class Decomposition:
                 need_lo = np.where(cap > 0.0, target / (np.maximum(active, 1.0) * cap), np.inf)
             for need, bound in ((need_hi, hi), (need_lo, lo)):
                 ok = need < 1.0
-                t = start + p.time_to_fraction(self.T, np.where(ok, need, 0.5))
+                t = start + self._own_time(p, np.where(ok, need, 0.5))
                 bound[...] = np.minimum(bound, np.where(ok, t, np.inf))
         solvable = several & (W > 0.0) & np.isfinite(hi) & np.isfinite(lo)
         lo = np.where(solvable, np.maximum(lo, 1e-300), 1.0)
@@ -196,7 +201,7 @@ class Decomposition:
             with np.errstate(divide="ignore", invalid="ignore"):
                 need = np.where(cap > 0.0, target / cap, np.inf)
             reachable = lone & (need < 1.0)
-            t = np.broadcast_to(p.time_to_fraction(self.T, np.where(reachable, need, 0.5)), shape)
+            t = np.broadcast_to(self._own_time(p, np.where(reachable, need, 0.5)), shape)
             others = [np.where(self.caps[q.name] > 0.0, self.delays[q.name], np.inf) for q in self.alloy.products
                       if q is not p]
             first_other = np.broadcast_to(np.minimum.reduce(others) if others else np.inf, shape)

@@ -137,7 +137,8 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
     -------
     FitResult
     """
-    from scipy.optimize import least_squares  # scipy.optimize loads on first use: the CLI starts faster
+    # scipy.optimize and scipy.special load on the first fit: the CLI starts faster
+    from scipy.optimize import least_squares
     from scipy.special import stdtrit
 
     if alloy.batch_shape:

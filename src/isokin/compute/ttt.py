@@ -24,7 +24,7 @@ NOSE_TOLERANCE_K = 0.01
 _NOSE_ZOOMS = 1
 #: Values a curve is asked for at once: a large batch is solved a few temperatures at a
 #: time, so its temporaries stay in the processor's cache instead of new memory pages.
-CHUNK_VALUES = 1 << 18
+CHUNK_VALUES = 1 << 16
 
 
 def curve_times(curves, temperatures_K, fractions):
