@@ -1,5 +1,7 @@
 """Continuous cooling speed: 100 constant-rate paths of a 3-product steel, vectorised across
-paths, against scipy's solve_ivp integrating the same additivity sums path by path.
+paths, against scipy's solve_ivp integrating the same additivity sums path by path; the
+austempering plan of 4140 (its required quench rates bisected for every hold at once) against
+bisecting hold by hold; the CCT critical rates (both definitions in one batched bisection).
 
     python benchmarks/bench_cooling.py
 
@@ -16,6 +18,7 @@ from scipy.integrate import solve_ivp
 from bench_engine import best_of  # same folder: run as python benchmarks/bench_cooling.py
 
 import isokin
+from isokin.compute import cooling, plan
 from isokin.compute.cooling import constant_rate
 
 STEEL = {"C": 0.405, "Mn": 0.875, "Si": 0.25, "Cr": 0.95, "Mo": 0.20}
@@ -57,6 +60,21 @@ def main():
           f"ratio {t_ref / t_engine:.0f}x")
     print(f"  (accuracy against solve_ivp on the rate form: tests/test_cooling.py; reference own fractions at "
           f"{sample[4]:.3g} K/s: {', '.join(f'{x:.4f}' for x in refs[4])})")
+    plans()
+
+
+def plans():
+    alloy = isokin.load_alloy("alloys/aisi-4140-crmo.toml")
+    t_plan = best_of(lambda: isokin.austemper(alloy), 5)
+    holds = isokin.austemper(alloy).to_frame()["temperature_C"].to_numpy()
+    start = cooling.default_start_C(alloy)
+    t_rates = best_of(lambda: plan.required_rates(alloy, start, holds), 3)
+    t_each = best_of(lambda: [plan.required_rates(alloy, start, holds[i:i + 1]) for i in range(holds.size)], 1)
+    print(f"austempering plan of 4140, {holds.size} candidate holds: {t_plan:.3f} s (target under 0.15 s); its "
+          f"required quench rates {t_rates * 1e3:.0f} ms against bisecting hold by hold {t_each:.2f} s, "
+          f"ratio {t_each / t_rates:.0f}x")
+    t_crit = best_of(lambda: cooling.critical_rates(alloy, start), 3)
+    print(f"CCT critical rates of 4140 (both definitions in one batched bisection): {t_crit * 1e3:.0f} ms")
 
 
 if __name__ == "__main__":

@@ -1,4 +1,6 @@
-"""How results are written for people: durations and the cautions every output carries."""
+"""How results are written for people: durations, temperatures and the cautions every output carries."""
+
+from .constants import celsius_to_fahrenheit, kelvin_to_celsius
 
 #: The full caution: CLI help and the end of every command's output.
 CAUTION = (
@@ -28,3 +30,21 @@ def format_duration(t_s):
     if t_s < 172800:
         return f"{t_s / 3600:.3g} h"
     return f"{t_s / 86400:.3g} d"
+
+
+def format_temperature(t_c, units="C"):
+    """A temperature for a printed table, in °C or (``units="F"``) °F.
+
+    >>> format_temperature(450.0), format_temperature(450.0, "F")
+    ('450.0 °C', '842.0 °F')
+    """
+    return f"{celsius_to_fahrenheit(t_c) if units == 'F' else t_c:.1f} °{units}"
+
+
+def format_austenite_left(carbon, martensite_start_K, units="C"):
+    """The carbon and Ms of the austenite left at the end of a hold or cooling path.
+
+    >>> format_austenite_left(0.571, 541.65)
+    '0.57 % C, Ms 268.5 °C'
+    """
+    return f"{float(carbon):.2f} % C, Ms {format_temperature(float(kelvin_to_celsius(martensite_start_K)), units)}"

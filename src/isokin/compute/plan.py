@@ -101,7 +101,7 @@ def _edges(margin, T_scan, ok):
     return edges
 
 
-def _required_rates(alloy, start_C, hold_C, avoid=("ferrite", "pearlite")):
+def required_rates(alloy, start_C, hold_C, avoid=("ferrite", "pearlite")):
     """Per hold temperature: the slowest constant rate from start_C to it with the named
     products under 1 % on arrival (additivity), by bisection on ln(rate) to 1 %.
 
@@ -229,7 +229,7 @@ def _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C):
     T_C = kelvin_to_celsius(T)
     finite = np.where(np.isfinite(hold_s), hold_s, 1.0)
     structure, carbon = _microstructure(alloy, T_C, finite)
-    rates = _required_rates(alloy, _start_C(alloy, austenitizing_C), T_C)
+    rates = required_rates(alloy, _start_C(alloy, austenitizing_C), T_C)
     hv = _hardness(alloy, structure, rates, carbon)
     return {"ferrite_pearlite_alone_1pct_s": start_soft, "required_rate_K_s": rates, "hardness_HV": hv,
             **{f"after_{name}": v for name, v in structure.items()}}

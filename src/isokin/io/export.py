@@ -123,7 +123,8 @@ def write_columns_csv(columns: dict, target: Path):
 
 
 def _temperature_C(t_k):
-    return round(float(kelvin_to_celsius(t_k)), 3)
+    """°C to 3 decimals; None (null) for 0 K, which the models give where a line does not exist."""
+    return round(float(kelvin_to_celsius(t_k)), 3) if float(t_k) > 0.0 else None
 
 
 def summary(result: TTTResult) -> dict:
@@ -167,8 +168,20 @@ def summary(result: TTTResult) -> dict:
     }
 
 
+def _finite_or_null(value):
+    """The record with every non-finite number as null: JSON has no NaN or infinity."""
+    if isinstance(value, dict):
+        return {k: _finite_or_null(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_finite_or_null(v) for v in value]
+    if isinstance(value, float) and not np.isfinite(value):
+        return None
+    return value
+
+
 def write_json(data: dict, target: Path):
-    Path(target).write_text(json.dumps(data, indent=2, ensure_ascii=False) + "\n", encoding="utf-8")
+    text = json.dumps(_finite_or_null(data), indent=2, ensure_ascii=False, allow_nan=False)
+    Path(target).write_text(text + "\n", encoding="utf-8")
 
 
 def write_summary_json(result: TTTResult, target: Path):

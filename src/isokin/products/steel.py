@@ -437,8 +437,9 @@ def _kinetics_provenance(model, critical, products, overrides):
     return {
         "kinetics_reference": model.reference,
         "bainite_start": {"method": critical.methods["bainite_start"],
-                          "temperature_C": _record(np.where(critical.valid, kelvin_to_celsius(critical.bainite_start_K),
-                                                            np.nan))},
+                          # none (null) where the heat is invalid or its Bs lies below absolute zero
+                          "temperature_C": _record(np.where(critical.valid & (critical.bainite_start_K > 0.0),
+                                                            kelvin_to_celsius(critical.bainite_start_K), np.nan))},
         "product_domains": DOMAINS,
         "ferrite_equilibrium": LeverRuleFerrite.method,
         "kinetics": {p.name: p.coefficients.as_dict() for p in products},
