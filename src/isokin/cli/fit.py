@@ -8,7 +8,6 @@ from typing import Annotated, Optional
 
 import typer
 
-from .. import __version__
 from ..errors import InputError
 from .options import OverwriteOpt, Units, UnitsOpt, in_units, whole_number
 from .runner import Drawing, Outcome, run
@@ -55,22 +54,16 @@ def fit(
         from datetime import datetime, timezone
 
         from ..compute import fit as fitting
-        from ..io.export import calibrated_tables, fit_report, write_json
+        from ..io.export import calibrated_file, fit_report, write_json
         from ..io.measurements import read_measurements
-        from ..io.toml_out import dumps
 
         data, digest = read_measurements(data_file, [p.name for p in alloy.products])
-        if bootstrap is not None and not 0 <= bootstrap <= 2000:
-            raise InputError(None, "--bootstrap", f"must lie from 0 to 2000, got {bootstrap}")
         status("fitting")
         result = fitting.fit(alloy, data, free=free or None, loss="linear" if plain else "soft_l1",
                              bootstrap=bootstrap or 0,
                              progress=lambda done, total: status("bootstrap resamples", done, total))
         date = datetime.now(timezone.utc).replace(microsecond=0).isoformat()
-        header = (f"Calibrated by isokin {__version__} on {date} from {data_file.name} (sha256 {digest[:16]}...).\n"
-                  f"Fitted: {', '.join(result.free) or 'nothing'}; rms of ln(model/measured time) {result.rms_ln_t:.3f}.\n"
-                  "A calibration describes the heat it was measured on; confirm before production.")
-        text = dumps(calibrated_tables(result, data_file.name, digest, date), header)
+        text = calibrated_file(result, data_file.name, digest, date)
 
         def draw():
             from ..plot.fit import fit_figure
@@ -82,7 +75,7 @@ def fit(
             out.with_name(f"{stem}-fit.json"): lambda p: write_json(fit_report(result, data_file.name, digest, date), p),
             out.with_name(f"{stem}-fit.png"): Drawing(draw)})
 
-    run(load, solve, overwrite=overwrite, keys={"free": "--free", "data": "DATA"})
+    run(load, solve, overwrite=overwrite, keys={"free": "--free", "data": "DATA", "bootstrap": "--bootstrap"})
 
 
 def _print_fit(alloy, data, result, units):

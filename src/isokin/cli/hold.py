@@ -53,6 +53,8 @@ def hold(
 
 
 def _print_hold(alloy, temperature_c, result, units):
+    from ..results import PRACTICAL_HORIZON_S
+
     typer.echo(f"{alloy.name}: hold at {in_units(temperature_c, units)}, then quench to "
                f"{in_units(result.quench_to_C, units)}")
     names = list(result.fractions)
@@ -67,7 +69,8 @@ def _print_hold(alloy, temperature_c, result, units):
     typer.echo(f"  times at {in_units(temperature_c, units)} to 1 %, 50 %, 99 % (products: of their own completion; "
                f"total: of the {float(result.transformable[0]) * 100:.0f} % that can transform here)")
     for product, marks in result.milestones_s.items():
-        cells = [format_duration(float(v)) if math.isfinite(v) and v <= 1e9 else "never" for v in marks[0]]
+        cells = [format_duration(float(v)) if math.isfinite(v) and v <= PRACTICAL_HORIZON_S else "never"
+                 for v in marks[0]]
         typer.echo(f"  {product:<12}" + "".join(f"{c:>12}" for c in cells))
 
 

@@ -82,22 +82,19 @@ def load(alloy_file: Optional[Path], inline: Inline):
         return alloy, stem
     if alloy_file is not None:
         raise InputError(None, "--composition", "give either an alloy file or --composition, not both")
-    from ..products.steel import DEFAULT_GRAIN_SIZE_ASTM, steel
+    from ..products.steel import steel
 
     composition = parse_inline_composition(inline.composition)
-    notes = [] if inline.grain_size is not None else [f"no --grain-size given; taking ASTM {DEFAULT_GRAIN_SIZE_ASTM:g}"]
     calibration = None
     if inline.calibration is not None:
         from ..io.steel_file import load_calibration
 
         calibration = load_calibration(inline.calibration)
-    analysis = ", ".join(f"{k} {v:g}" for k, v in composition.items())
-    name = inline.name or f"heat analysis {analysis}"
-    alloy = steel(composition, inline.grain_size, name=name, austenitizing_temperature_C=inline.austenitizing_c,
+    alloy = steel(composition, inline.grain_size, name=inline.name, austenitizing_temperature_C=inline.austenitizing_c,
                   ms_method=inline.ms_method, bs_method=inline.bs_method, kinetics_model=inline.kinetics,
                   calibration=calibration)
     stem = file_stem(inline.name or "heat " + " ".join(f"{k}{v:g}" for k, v in composition.items()))
-    return alloy.replace(warnings=(*notes, *alloy.warnings)), stem
+    return alloy, stem
 
 
 class Drawing:

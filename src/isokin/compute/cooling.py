@@ -97,6 +97,10 @@ def constant_rate(rate_K_s, start_C, end_C=20.0):
     return CoolingPath((T[0] - T) / rate, T, f"{rate:g} K/s")
 
 
+#: Volume per cooled area of each lumped shape, per unit of its size (thickness or diameter).
+_VOLUME_PER_AREA = {"plate": 0.5, "bar": 0.25, "sphere": 1.0 / 6.0}
+
+
 def lumped_time_constant(thickness_m, heat_transfer_W_m2K, density_kg_m3=7850.0, heat_capacity_J_kgK=600.0,
                          conductivity_W_mK=30.0, shape="plate"):
     """Time constant of a lumped body, tau = rho c (V/A) / h, and its Biot number h (V/A) / k.
@@ -109,7 +113,18 @@ def lumped_time_constant(thickness_m, heat_transfer_W_m2K, density_kg_m3=7850.0,
     >>> round(tau, 1), round(biot, 3)
     (47.1, 0.083)
     """
-    ratio = {"plate": 0.5, "bar": 0.25, "sphere": 1.0 / 6.0}[shape] * thickness_m
+    if shape not in _VOLUME_PER_AREA:
+        raise InputError(None, "shape", f"must be plate, bar or sphere, got {shape!r}")
+    for key, value in (("thickness_m", thickness_m), ("heat_transfer_W_m2K", heat_transfer_W_m2K),
+                       ("density_kg_m3", density_kg_m3), ("heat_capacity_J_kgK", heat_capacity_J_kgK),
+                       ("conductivity_W_mK", conductivity_W_mK)):
+        try:
+            positive = bool(np.isfinite(float(value)) and float(value) > 0.0)
+        except (TypeError, ValueError):
+            positive = False
+        if not positive:
+            raise InputError(None, key, "must be a positive number")
+    ratio = _VOLUME_PER_AREA[shape] * thickness_m
     return density_kg_m3 * heat_capacity_J_kgK * ratio / heat_transfer_W_m2K, heat_transfer_W_m2K * ratio / conductivity_W_mK
 
 
@@ -318,6 +333,10 @@ def cool(alloy, path):
     True
     """
     paths = _path_list(path)
+    top_C = formation_top_C(alloy)
+    if all(float(kelvin_to_celsius(np.min(p.temperature_K))) >= top_C for p in paths):
+        raise InputError(None, "path", f"{' and '.join(p.label for p in paths)} never cools below {top_C:.0f} °C, "
+                         "where the first product could form: nothing to predict")
     t, T, fractions, carbon = along(alloy, paths)
     final = {name: v[:, -1] for name, v in fractions.items()}
     starts = {p.name: first_reached(t, T, fractions[p.name], START_SHARE) for p in alloy.products}

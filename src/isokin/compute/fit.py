@@ -18,6 +18,7 @@ Free parameters are named ``<product>.<parameter>``:
 
 from __future__ import annotations
 
+import operator
 import warnings
 
 import numpy as np
@@ -33,6 +34,8 @@ LOG_PARAMETERS = ("factor", "diffusion_prefactor_m2_s")
 ROBUST_SCALE = 0.2
 #: The confidence level of the reported intervals.
 CONFIDENCE = 0.95
+#: Bootstrap resamples at most (2,000 refit in about half a second here).
+MAX_BOOTSTRAP = 2000
 
 
 def avrami_exponent(time_s, fraction):
@@ -129,7 +132,7 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
     loss : str
         least_squares loss: "soft_l1" (default, robust) or "linear" (plain least squares).
     bootstrap : int
-        Resamples of the points for percentile intervals as well (0: none).
+        Resamples of the points for percentile intervals as well, 0 (none) to :data:`MAX_BOOTSTRAP`.
     progress : callable, optional
         ``progress(done, total)`` after each resample.
 
@@ -143,6 +146,12 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
 
     if alloy.batch_shape:
         raise InputError(None, "alloy", "a fit takes one alloy, not a batch")
+    try:
+        resamples = operator.index(bootstrap)  # a whole number (int or numpy integer), not a float
+    except TypeError:
+        resamples = -1
+    if not 0 <= resamples <= MAX_BOOTSTRAP:
+        raise InputError(None, "bootstrap", f"must be a whole number from 0 to {MAX_BOOTSTRAP}, got {bootstrap}")
     free = tuple(default_free(alloy, data) if free is None else free)
     _check_free(alloy, free)
     m, k = data.time_s.size, len(free)

@@ -23,6 +23,7 @@ from ..constants import kelvin_to_celsius
 from ..readout import CAUTION_SHORT
 from ..relations.hardness import hrc_from_hv_astm_e140
 from ..results import PRACTICAL_HORIZON_S, TTTResult
+from .toml_out import dumps
 
 CURVE_COLUMNS = ["product", "fraction", "temperature_C", "time_s"]
 
@@ -405,6 +406,16 @@ def calibrated_tables(result, data_name: str, digest: str, date: str) -> dict:
         "rms_ln_t": float(result.rms_ln_t),
     }
     return tables
+
+
+def calibrated_file(result, data_name: str, digest: str, date: str) -> str:
+    """The text of the calibrated alloy file: a header saying what was fitted to what and how
+    well, then :func:`calibrated_tables` (loadable by ``isokin.load_alloy``, and by
+    ``isokin.load_calibration`` for another heat). ``date``: ISO 8601, as the record keeps it."""
+    header = (f"Calibrated by isokin {__version__} on {date} from {data_name} (sha256 {digest[:16]}...).\n"
+              f"Fitted: {', '.join(result.free) or 'nothing'}; rms of ln(model/measured time) {result.rms_ln_t:.3f}.\n"
+              "A calibration describes the heat it was measured on; confirm before production.")
+    return dumps(calibrated_tables(result, data_name, digest, date), header)
 
 
 def fit_report(result, data_name: str, digest: str, date: str) -> dict:

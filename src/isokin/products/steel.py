@@ -371,7 +371,8 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
     if np.any(~valid & critical.valid):
         line_warnings.append(_no_time_scale(model, ~valid & critical.valid, single=batch == ()))
         products = steel_products(comp, grain, dataclasses.replace(critical, valid=valid), model, coefficients)
-    warnings = [*critical.warnings, *line_warnings,
+    assumed = [] if grain_size_astm is not None else [f"no grain size given; taking ASTM {DEFAULT_GRAIN_SIZE_ASTM:g}"]
+    warnings = [*assumed, *critical.warnings, *line_warnings,
                 *_analysis_warnings(comp, critical, model, austenitizing_temperature_C)]
 
     options = {"grain_size_astm": _record(grain if batch != () else float(grain)), "ms_method": ms_method,
@@ -494,8 +495,8 @@ def _default_range(products, valid, lines):
     highest product's upper temperature less the margin."""
     uppers = [np.max(np.where(valid, p.upper_K, -np.inf)) for p in products]
     upper = max(float(u) for u in uppers) if np.any(valid) else celsius_to_kelvin(900.0)
-    lowest = next((lines[k] for k in ("M90", "M50", "Ms") if k in lines), np.nan)
-    lowest = np.nanmin(np.asarray(lowest, dtype=float))
+    line = next((lines[k] for k in ("M90", "M50", "Ms") if k in lines), None)  # each holds a finite value
+    lowest = np.nan if line is None else np.nanmin(np.asarray(line, dtype=float))
     lower = max(float(lowest) - BELOW_M90_K if np.isfinite(lowest) else -np.inf, celsius_to_kelvin(LOWEST_DEFAULT_C))
     return lower, upper - UPPER_MARGIN_K
 
