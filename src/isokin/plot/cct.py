@@ -14,7 +14,7 @@ from matplotlib.lines import Line2D
 from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
 from ..readout import CAUTION_SHORT
 from ..results import OVERALL, CCTResult, CoolingResult
-from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, plot_ttt, to_units
+from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
 
 PATH_COLOUR = "#6a3d9a"
 COOLING_STYLE = {"color": "#b5b5b5", "linewidth": 0.7, "zorder": 1}
@@ -60,7 +60,7 @@ def plot_cct(result: CCTResult, ax=None, units="C"):
     handles += [Line2D([], [], color="#333333", linestyle="-", label="start (1 % of the part)"),
                 Line2D([], [], color="#333333", linestyle=(0, (5, 2.5)), label="finish (99 % of its final share)"),
                 Line2D([], [], label="constant cooling rates", **COOLING_STYLE)]
-    ax.set_xscale("log")
+    log_time_axis(ax)
     finite = cooling.time_s[cooling.time_s > 0]
     ax.set_xlim(max(finite.min(), 1e-2), finite.max() * 1.5)
     lines = {name: float(to_units(kelvin_to_celsius(t), units)) for name, t in result.critical_K.items()}

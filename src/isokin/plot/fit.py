@@ -7,7 +7,7 @@ import numpy as np
 
 from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
 from ..readout import CAUTION_SHORT
-from .ttt import OVERALL_COLOUR, literal
+from .ttt import OVERALL_COLOUR, literal, log_time_axis
 
 
 def fit_figure(result, curves, units="C"):
@@ -28,7 +28,7 @@ def fit_figure(result, curves, units="C"):
     points = ax.scatter(d.time_s, to(kelvin_to_celsius(d.temperature_K)), c=d.fraction, cmap="viridis", vmin=0,
                         vmax=1, s=18, edgecolors="black", linewidths=0.4, zorder=5, label="measured")
     fig.colorbar(points, ax=ax, label="measured fraction", shrink=0.8)
-    ax.set_xscale("log")
+    log_time_axis(ax)
     ax.set_xlabel("hold time, s (log scale)")
     ax.set_ylabel(f"hold temperature, °{units}")
     ax.set_title(f"Calibration: {literal(result.alloy.name)}", fontsize=11, loc="left")

@@ -6,7 +6,7 @@ import matplotlib.pyplot as plt
 import numpy as np
 
 from ..constants import kelvin_to_celsius
-from .ttt import OVERALL_COLOUR, PRODUCT_COLOURS, literal, plot_ttt, to_units
+from .ttt import OVERALL_COLOUR, PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
 
 
 def plot_spread(result, ax=None, units="C"):
@@ -57,7 +57,7 @@ def plot_compare(results, ax=None, units="C"):
             ax.axhline(ms, color=colour, linestyle=style, linewidth=0.9, alpha=0.8)
             label += f" (Ms {ms:.0f} °{units}, thin line)"
         ax.plot(t, y, color=colour, linestyle=style, linewidth=2.0, label=label)
-    ax.set_xscale("log")
+    log_time_axis(ax)
     ax.set_xlabel("hold time, s (log scale)")
     ax.set_ylabel(f"hold temperature, °{units}")
     ax.set_title("Transformation start (1 %) compared", fontsize=11, loc="left")

@@ -13,6 +13,7 @@ import textwrap
 import matplotlib.pyplot as plt
 import numpy as np
 from matplotlib.lines import Line2D
+from matplotlib.ticker import FuncFormatter
 
 from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
 from ..readout import CAUTION_SHORT, format_duration
@@ -32,6 +33,22 @@ TIME_MARKS_S = {"1 min": 60.0, "1 h": 3600.0, "1 day": 86400.0, "1 week": 604800
 def literal(text: str) -> str:
     """Input text as plain text on a figure: a ``$`` is a dollar sign, never maths."""
     return text.replace("$", r"\$")
+
+
+_SUPERSCRIPTS = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
+
+
+def _power_of_ten(value, _position=None):
+    """A log-axis tick as plain text: 1, 10, 10², 10⁻¹ (Unicode superscripts, not the maths
+    renderer, which costs a parser on every figure)."""
+    exponent = int(np.round(np.log10(value))) if value > 0 else 0
+    return {0: "1", 1: "10"}.get(exponent, f"10{str(exponent).translate(_SUPERSCRIPTS)}")
+
+
+def log_time_axis(ax):
+    """A logarithmic time axis (x) with plain-text powers of ten."""
+    ax.set_xscale("log")
+    ax.xaxis.set_major_formatter(FuncFormatter(_power_of_ten))
 
 
 def to_units(t_c, units="C"):
@@ -89,7 +106,7 @@ def plot_ttt(result: TTTResult, ax=None, units="C"):
     else:
         every = np.concatenate(shown_times)
         lo, hi = every.min() / 400.0, min(every.max() * 4.0, PRACTICAL_HORIZON_S)
-    ax.set_xscale("log")
+    log_time_axis(ax)
     ax.set_xlim(lo, hi)
     lines = {name: float(to_units(kelvin_to_celsius(t), units)) for name, t in result.critical_K.items()}
     bottom, top_c = min(t_c[0], *lines.values()), max(t_c[-1], *lines.values())
