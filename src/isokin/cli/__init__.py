@@ -2,8 +2,9 @@
 
 No physics and no defaults of its own here. Bad input ends with one line on stderr and exit
 code 2. A module per command or family of commands; :mod:`.runner` is the sequence they all
-follow and :mod:`.options` the options they share. The library is imported inside each
-command, so ``isokin --help`` and ``isokin version`` start fast.
+follow, :mod:`.options` the options they share and :mod:`.commands` the typer application. The
+library is imported inside each command, so ``isokin --help`` starts fast, and ``isokin
+version`` answers before the command-line framework loads.
 """
 
 from __future__ import annotations
@@ -11,30 +12,16 @@ from __future__ import annotations
 import signal
 import sys
 
-import typer
-
 from .. import __version__
-from ..readout import CAUTION
-from . import cooling, diagram, fit, hold, plan, spread
-from .status import status
-
-app = typer.Typer(
-    add_completion=False,
-    no_args_is_help=True,
-    help="isokin: isothermal transformation (TTT) diagrams from nucleation and growth kinetics, "
-    "for heat-treatment planning. " + CAUTION,
-)
-
-# in the order --help lists them
-for _command in (diagram.diagram, diagram.check, hold.hold, cooling.cct, cooling.cool, plan.plan, fit.fit,
-                 spread.spread, spread.compare):
-    app.command()(_command)
 
 
-@app.command()
-def version():
-    """Print the isokin version."""
-    typer.echo(__version__)
+def __getattr__(name):
+    # the typer application is built on first use: ``isokin version`` answers without it
+    if name == "app":
+        from .commands import app
+
+        return app
+    raise AttributeError(f"module 'isokin.cli' has no attribute {name!r}")
 
 
 def _terminated(signum, frame):
@@ -44,6 +31,14 @@ def _terminated(signum, frame):
 
 def main():
     """Entry point: a usage error (unknown option, wrong type, value out of range) ends with one line too."""
+    if sys.argv[1:] == ["version"]:  # the one command that needs no command-line framework
+        print(__version__)
+        sys.exit(0)
+    import typer
+
+    from .commands import app
+    from .status import status
+
     signal.signal(signal.SIGTERM, _terminated)
     status.restart()
     try:
