@@ -6,7 +6,12 @@ import typer
 
 from .. import __version__
 from ..readout import CAUTION
-from . import cooling, diagram, fit, hold, plan, spread
+from .cooling import cct, cool
+from .diagram import check, diagram
+from .fit import fit
+from .hold import hold
+from .plan import plan
+from .spread import compare, spread
 
 app = typer.Typer(
     add_completion=False,
@@ -15,8 +20,7 @@ app = typer.Typer(
     "for heat-treatment planning. " + CAUTION,
 )
 
-for _command in (diagram.diagram, diagram.check, hold.hold, cooling.cct, cooling.cool, plan.plan, fit.fit,
-                 spread.spread, spread.compare):
+for _command in (diagram, check, hold, cct, cool, plan, fit, spread, compare):
     app.command()(_command)
 
 
