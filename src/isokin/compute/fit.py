@@ -23,6 +23,7 @@ import warnings
 
 import numpy as np
 
+from ..constants import kelvin_to_celsius
 from ..errors import InputError
 from ..results import FitResult, Measurements
 from .decomposition import Decomposition
@@ -162,7 +163,7 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
         row = data.rows[i] if data.rows else i + 1
         what = data.product[i] or "any product"
         raise InputError(data.source, f"row {row}", f"{what} cannot reach fraction {data.fraction[i]:g} at "
-                         f"{data.temperature_K[i] - 273.15:g} °C in this model; check the temperature and product")
+                         f"{kelvin_to_celsius(data.temperature_K[i]):g} °C in this model; check the temperature and product")
     if m < k + 1:
         raise InputError(data.source, None, f"{m} points cannot fit {k} free parameters; give at least {k + 1}")
     base = {n: alloy.calibration_parameters[n] for n in free}
@@ -285,7 +286,7 @@ def _avrami(alloy, data):
     for T, p in keys:
         pick = (data.temperature_K == T) & np.array([q == p for q in data.product])
         if pick.sum() >= 3 and np.ptp(data.fraction[pick]) > 0:
-            out.append({"temperature_C": T - 273.15, "product": p or "total",
+            out.append({"temperature_C": kelvin_to_celsius(T), "product": p or "total",
                         "measured_n": avrami_exponent(data.time_s[pick], data.fraction[pick]),
                         "model_n": avrami_exponent(model[pick], data.fraction[pick])})
     return tuple(out)
@@ -296,14 +297,14 @@ def band(result, fractions=(0.01, 0.5, 0.99), samples=100, seed=1, temperatures_
     parameter sets drawn from the fit's covariance (one batch). Returns (T_K, times, lo, hi)."""
     fitted = result.fitted
     T = temperatures_K if temperatures_K is not None else np.linspace(*fitted.default_range_K, 120)
-    centre = ttt(fitted, temperatures_C=T - 273.15, fractions=fractions)
+    centre = ttt(fitted, temperatures_C=kelvin_to_celsius(T), fractions=fractions)
     name = centre.overall or centre.products[0]
     if not result.free or not np.all(np.isfinite(result.covariance)):
         return T, centre.times_s[name], centre.times_s[name], centre.times_s[name]
     rng = np.random.default_rng(seed)
     draws = rng.multivariate_normal(result.theta, result.covariance, size=samples)
     batch = with_values(result.alloy, _to_values(result.free, draws.T))
-    spread = ttt(batch, temperatures_C=T - 273.15, fractions=fractions)
+    spread = ttt(batch, temperatures_C=kelvin_to_celsius(T), fractions=fractions)
     times = np.where(np.isfinite(spread.times_s[name]), spread.times_s[name], np.nan)
     with warnings.catch_warnings():  # no curve at some temperatures: the band is NaN there
         warnings.filterwarnings("ignore", message="All-NaN slice")

@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 from pathlib import Path
 
-from ..constants import AVOGADRO_PER_MOL, celsius_to_kelvin
+from ..constants import AVOGADRO_PER_MOL, ZERO_CELSIUS_K, celsius_to_kelvin, kelvin_to_celsius
 from ..errors import InputError
 from ..products.nucleation_growth import (
     DRIVING_FORCE_FORMS,
@@ -89,7 +89,7 @@ def _product_from_table(source: Path, index: int, table) -> NucleationGrowthProd
         params["equilibrium_K"] = celsius_to_kelvin(v["equilibrium_temperature_C"])
         params["latent_heat_J_mol"] = v["latent_heat_J_mol"]
     product = NucleationGrowthProduct(
-        v["name"], NucleationGrowthParameters(**params), celsius_to_kelvin(v.get("lower_temperature_C", -273.15))
+        v["name"], NucleationGrowthParameters(**params), celsius_to_kelvin(v.get("lower_temperature_C", -ZERO_CELSIUS_K))
     )
     upper = float(product.upper_K)
     if upper <= 0:
@@ -100,7 +100,7 @@ def _product_from_table(source: Path, index: int, table) -> NucleationGrowthProd
     if upper <= product.lower_K:
         key = "lower_temperature_C" if "lower_temperature_C" in v else "strain_energy_J_m3"
         raise InputError(source, where + key, f"leaves no temperature where the product can form: its upper "
-                         f"temperature is {upper - 273.15:.1f} °C; the lower bound must lie below it")
+                         f"temperature is {kelvin_to_celsius(upper):.1f} °C; the lower bound must lie below it")
     return product
 
 

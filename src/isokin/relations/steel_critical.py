@@ -13,7 +13,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..constants import celsius_to_kelvin
+from ..constants import celsius_to_kelvin, kelvin_to_celsius
 from .composition import Composition
 
 #: Rate constant of Koistinen and Marburger (1959), 1/K (their 0.011 per degree C).
@@ -236,7 +236,7 @@ def ferrite_fraction_lever_rule_andrews(T_K, composition: Composition, ferrite_c
     0.541
     """
     return lever_rule_ferrite_fraction(
-        np.asarray(T_K, dtype=float) - 273.15, andrews_ae3_without_carbon_C(composition), andrews_ae1_C(composition),
+        kelvin_to_celsius(np.asarray(T_K, dtype=float)), andrews_ae3_without_carbon_C(composition), andrews_ae1_C(composition),
         composition.C, eutectoid_carbon_andrews_1965(composition), ferrite_carbon)
 
 
