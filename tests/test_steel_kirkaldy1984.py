@@ -39,6 +39,7 @@ from isokin.products.base import Product
 from isokin.products.kirkaldy1984 import KV1984, KV1984_KINETICS, KV1984_REFERENCE
 from isokin.products.steel_kinetics import SteelProduct
 from isokin.relations.composition import Composition
+from test_steel_li1998 import assert_times_ordered
 
 R = scipy.constants.R  # J/(mol K), exact since 2019
 CAL = scipy.constants.calorie  # thermochemical calorie, 4.184 J
@@ -446,15 +447,7 @@ def test_eutectoid_steel_pearlite_starts_within_seconds_between_500_and_600_c():
 @settings(max_examples=30, deadline=None)
 @given(steel=steels, grain=grains)
 def test_times_are_ordered_where_a_product_forms_and_infinite_elsewhere(steel, grain):
-    products, _, critical = kv_steel(steel, grain)
-    T = np.linspace(critical["Ms"] - 50.0, max(p.upper_K for p in products) + 50.0, 400)
-    X = np.array([[0.01], [0.5], [0.99]])
-    for product in products:
-        t = product.time_to_fraction(T, X)
-        forms = (T >= product.lower_K) & (T < product.upper_K)
-        assert not np.any(np.isnan(t)) and np.all(t > 0.0)
-        assert np.all(np.isfinite(t[:, forms])) and np.all(np.isinf(t[:, ~forms]))
-        assert np.all(t[0, forms] < t[1, forms]) and np.all(t[1, forms] < t[2, forms])
+    assert_times_ordered(*kv_steel(steel, grain))
 
 
 @settings(max_examples=25, deadline=None)

@@ -233,7 +233,12 @@ def test_validity_ranges_give_warnings_that_name_the_model():
 @settings(max_examples=40, deadline=None)
 @given(steel=steels, grain=grains)
 def test_times_are_ordered_where_a_product_forms_and_infinite_elsewhere(steel, grain):
-    products, _, critical = li_steel(steel, grain)
+    assert_times_ordered(*li_steel(steel, grain))
+
+
+def assert_times_ordered(products, _, critical):
+    """Positive, finite only inside each product's window (inf outside), and rising with the
+    fraction; shared with the Kirkaldy & Venugopalan tests."""
     T = np.linspace(critical["Ms"] - 50.0, max(p.upper_K for p in products) + 50.0, 400)
     X = np.array([[0.01], [0.5], [0.99]])
     for product in products:
