@@ -323,6 +323,12 @@ def cool(alloy, path):
     -------
     CoolingResult
 
+    Raises
+    ------
+    InputError
+        (key ``path``) where no path cools below the highest temperature at which a product
+        forms: there is nothing to predict.
+
     Examples
     --------
     >>> import isokin
