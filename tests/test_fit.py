@@ -169,3 +169,17 @@ def test_a_calibration_transfers_to_another_heat_by_the_models_own_composition_t
     code, _, err, _ = run_main("diagram", "--composition", "C=0.3,Mn=1", "--calibration", ROOT / "alloys" /
                                "aisi-4140-crmo.toml")
     assert code == 2 and "no [calibration] record" in err
+
+
+def test_a_fit_with_nothing_free_reports_the_model_as_it_is():
+    # Consistency: with no free parameter the "fit" is the model itself; its report (once a
+    # crash: the model times were missing) gives the model's own times and residuals.
+    from isokin.io.export import fit_report
+
+    alloy = isokin.load_alloy(ROOT / "alloys" / "aisi-4140-crmo.toml")
+    data = synthetic(alloy, {"bainite.factor": 2.0}, 0.0, 0, product="bainite")
+    result = F.fit(alloy, data, free=())
+    np.testing.assert_allclose(result.model_times_s, F.model_times(alloy, data), rtol=0.0)
+    np.testing.assert_allclose(result.residuals_ln_t, np.log(F.model_times(alloy, data) / data.time_s), rtol=1e-12)
+    report = fit_report(result, "holds.csv", "0" * 64, "2026-12-02T00:00:00+00:00")
+    assert json.loads(json.dumps(report)) == report

@@ -437,7 +437,9 @@ def critical_rates(alloy, start_C, end_C=20.0):
     def good(rates, which):
         """Whether definition ``which[i]`` holds at ``rates[i]``: one batch of paths for all pairs."""
         final = cool(alloy, [constant_rate(r, start_C, ends[k]) for r, k in zip(rates, which)]).final
-        return np.array([bool(np.asarray(definitions[keys[k]][1](final))[i]) for i, k in enumerate(which)])
+        holds = np.stack([np.broadcast_to(np.asarray(definitions[key][1](final), dtype=bool), (len(which),))
+                          for key in keys])
+        return holds[np.asarray(which), np.arange(len(which))]
 
     scan = np.geomspace(1e-3, 1e4, 15)
     every = np.arange(len(keys))

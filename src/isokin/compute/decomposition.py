@@ -100,10 +100,10 @@ class Decomposition:
         waits_for = self.alloy.sequence.get(name)
         if waits_for is None:
             return np.zeros(np.shape(self.caps[name]))
-        t_wait = self._own_time(self._by_name[waits_for], WAIT_FRACTION)
+        t_wait = self.own_time(self._by_name[waits_for], WAIT_FRACTION)
         return np.where(self.caps[waits_for] > 0.0, t_wait, 0.0)
 
-    def _own_time(self, p, X):
+    def own_time(self, p, X):
         """Seconds product ``p`` alone takes to reach its own fraction X (0 < X < 1) at T: F(T) S(X)
         from the factor already computed where it is separable."""
         if p.separable:
@@ -118,20 +118,15 @@ class Decomposition:
             remaining = remaining * (1.0 - cap)
         return 1.0 - remaining
 
-    def own_fractions(self, t_s, extra_axes=0):
+    def own_fractions(self, t_s):
         """Each product's own share a_i(t) of the parent, alone, at hold time t_s."""
-        T = self.T.reshape(self.T.shape + (1,) * extra_axes)
-        out = {}
-        for p in self.alloy.products:
-            cap = self.caps[p.name].reshape(self.caps[p.name].shape + (1,) * extra_axes)
-            start = self.delays[p.name].reshape(self.delays[p.name].shape + (1,) * extra_axes)
-            out[p.name] = cap * p.fraction_after(T, np.maximum(t_s - start, 0.0))
-        return out
+        return {p.name: self.caps[p.name] * p.fraction_after(self.T, np.maximum(t_s - self.delays[p.name], 0.0))
+                for p in self.alloy.products}
 
-    def total(self, t_s, extra_axes=0):
+    def total(self, t_s):
         """Share of the parent transformed after t_s seconds: 1 - prod(1 - a_i)."""
         remaining = 1.0
-        for a in self.own_fractions(t_s, extra_axes).values():
+        for a in self.own_fractions(t_s).values():
             remaining = remaining * (1.0 - a)
         return 1.0 - remaining
 
@@ -139,9 +134,10 @@ class Decomposition:
         """Seconds until the total reaches ``share`` of what can transform at T (0 < share < 1);
         ``inf`` where nothing can transform. Broadcasts ``share`` against T.
 
-        Where one product alone can form, or where the first of a sequence reaches the share
-        before the next begins, it is that product's own time (closed form); otherwise the root
-        of the total in ln t, bracketed by each product alone.
+        Where one product alone can form, it is that product's own time (closed form);
+        otherwise the root of the total in ln t, bracketed by each product alone (where the
+        first of a sequence reaches the share before the next begins, the bracket's end is
+        the root).
         """
         W = self.transformable
         share = np.asarray(share, dtype=float)
@@ -150,16 +146,14 @@ class Decomposition:
         target = np.broadcast_to(target, shape)
         active = sum((cap > 0.0).astype(int) for cap in self.caps.values())
         result = np.full(shape, np.inf)
-        alone = np.broadcast_to((active == 1) & (W > 0.0), shape)
+        alone = np.broadcast_to(active == 1, shape)
         if alone.any():
             for p in self.alloy.products:
                 mine = alone & (self.caps[p.name] > 0.0)
                 if mine.any():
-                    t = self.delays[p.name] + self._own_time(p, share)
+                    t = self.delays[p.name] + self.own_time(p, share)
                     np.copyto(result, np.broadcast_to(t, shape), where=mine)
         several = np.broadcast_to(active > 1, shape)
-        if several.any():
-            several = several & ~self._first_alone(share, target, shape, several, result)
         if not several.any():
             return result
         # Brackets from each product alone: the total is at least any one product's share,
@@ -172,10 +166,10 @@ class Decomposition:
                 continue
             with np.errstate(divide="ignore", invalid="ignore"):
                 need_hi = np.where(cap > 0.0, target / cap, np.inf)
-                need_lo = np.where(cap > 0.0, target / (np.maximum(active, 1.0) * cap), np.inf)
+                need_lo = np.where(cap > 0.0, target / (active * cap), np.inf)
             for need, bound in ((need_hi, hi), (need_lo, lo)):
                 ok = need < 1.0
-                t = start + self._own_time(p, np.where(ok, need, 0.5))
+                t = start + self.own_time(p, np.where(ok, need, 0.5))
                 bound[...] = np.minimum(bound, np.where(ok, t, np.inf))
         solvable = several & (W > 0.0) & np.isfinite(hi) & np.isfinite(lo)
         lo = np.where(solvable, np.maximum(lo, 1e-300), 1.0)
@@ -185,30 +179,6 @@ class Decomposition:
         root = _bracketed_root(total, sloped, np.log(lo).ravel(), np.log(hi).ravel(), target.ravel(), idx).reshape(shape)
         np.copyto(result, np.exp(root), where=solvable)
         return result
-
-    def _first_alone(self, share, target, shape, several, result):
-        """Where the only product that starts at once reaches the target before any other
-        begins (proeutectoid ferrite short of its share, pearlite still waiting): its own time,
-        written into ``result``; returns where that held."""
-        started = {p.name: (self.caps[p.name] > 0.0) & (self.delays[p.name] == 0.0) for p in self.alloy.products}
-        count = sum(s.astype(int) for s in started.values())
-        done = np.zeros(shape, dtype=bool)
-        for p in self.alloy.products:
-            lone = several & np.broadcast_to((count == 1) & started[p.name], shape)
-            if not lone.any():
-                continue
-            cap = self.caps[p.name]
-            with np.errstate(divide="ignore", invalid="ignore"):
-                need = np.where(cap > 0.0, target / cap, np.inf)
-            reachable = lone & (need < 1.0)
-            t = np.broadcast_to(self._own_time(p, np.where(reachable, need, 0.5)), shape)
-            others = [np.where(self.caps[q.name] > 0.0, self.delays[q.name], np.inf) for q in self.alloy.products
-                      if q is not p]
-            first_other = np.broadcast_to(np.minimum.reduce(others) if others else np.inf, shape)
-            ok = reachable & (t <= first_other)
-            np.copyto(result, t, where=ok)
-            done |= ok
-        return done
 
     def _total_at(self, shape, idx):
         """(total(t, idx), sloped): the total at times t of the points idx of the flattened shape,
@@ -253,7 +223,7 @@ class Decomposition:
 
             return total, True
 
-        def total_full(t, idx, slope=False):
+        def total_full(t, idx):
             t_full = np.zeros(int(np.prod(shape)))
             t_full[idx] = t
             return self.total(t_full.reshape(shape)).ravel()[idx]
@@ -349,7 +319,7 @@ class ProductCurve:
             return t
         with np.errstate(divide="ignore", invalid="ignore"):
             own = np.where(reachable, X / np.where(reachable, cap, 1.0), 0.5)
-        return np.where(reachable, delay + self.product.time_to_fraction(d.T, own), np.inf)
+        return np.where(reachable, delay + d.own_time(self.product, own), np.inf)
 
 
 class OverallCurve:
@@ -522,15 +492,14 @@ def _bracketed_root(total, sloped, a, b, target, idx):
         return _illinois(total, a, b, fa, fb, target, idx, u)
     with np.errstate(divide="ignore", invalid="ignore"):
         x = np.where(fb != fa, b - fb * (b - a) / (fb - fa), 0.5 * (a + b))
-    x = np.where(np.isfinite(x) & (x > np.minimum(a, b)) & (x < np.maximum(a, b)), x, 0.5 * (a + b))
-    low, high = np.minimum(a, b), np.maximum(a, b)
-    rising = fb > fa  # the total grows with time: below the root the residual is negative
+    x = np.where(np.isfinite(x) & (x > a) & (x < b), x, 0.5 * (a + b))
+    low, high = a, b  # a < b; the total grows with time: below the root the residual is negative
     for _ in range(_ROOT_STEPS):
         if idx.size == 0:
             break
         f, df = total(np.exp(x), idx, slope=True)
         f = f - target
-        below = (f < 0.0) == rising
+        below = f < 0.0
         low, high = np.where(below, x, low), np.where(below, high, x)
         with np.errstate(divide="ignore", invalid="ignore"):
             step = x - f / df
@@ -538,8 +507,7 @@ def _bracketed_root(total, sloped, a, b, target, idx):
         x_new = np.where(f == 0.0, x, np.where(inside, step, 0.5 * (low + high)))
         u[idx] = x_new
         going = (np.abs(x_new - x) >= 1e-9) & (f != 0.0)
-        idx, x, low, high, target, rising = (idx[going], x_new[going], low[going], high[going], target[going],
-                                              rising[going])
+        idx, x, low, high, target = idx[going], x_new[going], low[going], high[going], target[going]
     return u
 
 

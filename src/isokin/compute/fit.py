@@ -166,26 +166,26 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
                          f"{kelvin_to_celsius(data.temperature_K[i]):g} °C in this model; check the temperature and product")
     if m < k + 1:
         raise InputError(data.source, None, f"{m} points cannot fit {k} free parameters; give at least {k + 1}")
-    base = {n: alloy.calibration_parameters[n] for n in free}
-    theta0 = np.array([_to_internal(n, base[n]) for n in free], dtype=float)
-    log_measured = np.log(data.time_s)
-
-    def residuals(theta, index=slice(None)):
-        times = model_times(with_values(alloy, _to_values(free, theta)), data)
-        with np.errstate(divide="ignore"):
-            r = np.log(times) - log_measured
-        return np.where(np.isfinite(r), r, 50.0)[index]
-
     if k == 0:
-        r = residuals(theta0)
+        r = _ln_ratio(start, data)
         return FitResult(alloy=alloy, fitted=alloy, free=(), values={}, model_values={}, intervals={},
                          bootstrap_intervals={}, residuals_ln_t=r, rms_ln_t=float(np.sqrt(np.mean(r**2))),
-                         data=data, covariance=np.zeros((0, 0)), loss=loss, avrami=_avrami(alloy, data))
+                         data=data, covariance=np.zeros((0, 0)), loss=loss, avrami=_avrami(data, start),
+                         model_times_s=start)
+    base = {n: alloy.calibration_parameters[n] for n in free}
+    theta0 = np.array([_to_internal(n, base[n]) for n in free], dtype=float)
+
+    def residuals(theta):
+        return _ln_ratio(model_times(with_values(alloy, _to_values(free, theta)), data), data)
+
     bounds = np.array([_bounds(n, theta0[i]) for i, n in enumerate(free)]).T
     solution = least_squares(residuals, theta0, loss=loss, f_scale=ROBUST_SCALE, x_scale="jac", method="trf",
                              bounds=bounds)
     theta = solution.x
-    r = residuals(theta)
+    values = _to_values(free, theta)
+    fitted = with_values(alloy, values)
+    times = model_times(fitted, data)
+    r = _ln_ratio(times, data)
     J = solution.jac
     dof = max(m - k, 1)
     s2 = float(np.sum(r**2) / dof)
@@ -203,12 +203,17 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
         draws = _refit_batch(alloy, data, free, theta, bounds, counts, loss, progress)
         lo, hi = np.percentile(draws, [50 * (1 - CONFIDENCE), 50 * (1 + CONFIDENCE)], axis=0)
         boot = {n: (_to_values([n], [lo[i]])[n], _to_values([n], [hi[i]])[n]) for i, n in enumerate(free)}
-    values = _to_values(free, theta)
-    fitted = with_values(alloy, values)
     return FitResult(alloy=alloy, fitted=fitted, free=free, values={n: float(v) for n, v in values.items()},
                      model_values=base, intervals=intervals, bootstrap_intervals=boot, residuals_ln_t=r,
                      rms_ln_t=float(np.sqrt(np.mean(r**2))), data=data, covariance=covariance, loss=loss,
-                     avrami=_avrami(fitted, data), theta=theta, model_times_s=model_times(fitted, data))
+                     avrami=_avrami(data, times), theta=theta, model_times_s=times)
+
+
+def _ln_ratio(times, data):
+    """ln(model / measured time) per point (the last axis), 50 where the model gives none."""
+    with np.errstate(divide="ignore"):
+        r = np.log(times) - np.log(data.time_s)
+    return np.where(np.isfinite(r), r, 50.0)
 
 
 #: Iterations of the batched refit of the bootstrap at most, and the step (in the fitted
@@ -224,15 +229,11 @@ def _refit_batch(alloy, data, free, theta, bounds, counts, loss, progress=None):
     parameter for the Jacobian). ``counts`` (resample, point): how often each point was drawn.
     Returns the parameters (resample, free) in the fitted coordinates."""
     B, k = counts.shape[0], len(free)
-    log_measured = np.log(data.time_s)
     lower, upper = bounds
 
     def residuals(th):
         """(sets, points) residuals in ln t for parameter sets ``th`` (sets, free)."""
-        times = model_times(with_values(alloy, _to_values(free, th.T)), data)
-        with np.errstate(divide="ignore"):
-            r = np.log(times) - log_measured
-        return np.where(np.isfinite(r), r, 50.0)
+        return _ln_ratio(model_times(with_values(alloy, _to_values(free, th.T)), data), data)
 
     def cost(r, rows=slice(None)):
         z = (r / ROBUST_SCALE) ** 2
@@ -278,10 +279,10 @@ def _refit_batch(alloy, data, free, theta, bounds, counts, loss, progress=None):
     return th
 
 
-def _avrami(alloy, data):
-    """Per isotherm (and product): the Avrami exponent of the data and of the model at the same fractions."""
+def _avrami(data, model):
+    """Per isotherm (and product): the Avrami exponent of the data and of the model (its times
+    ``model`` at the same points) at the same fractions."""
     out = []
-    model = model_times(alloy, data)
     keys = sorted({(float(T), p) for T, p in zip(data.temperature_K, data.product)}, key=lambda k: (k[0], k[1] or ""))
     for T, p in keys:
         pick = (data.temperature_K == T) & np.array([q == p for q in data.product])

@@ -257,8 +257,6 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
     if thickness_m is not None or heat_transfer_W_m2K is not None:
         if thickness_m is None or heat_transfer_W_m2K is None:
             raise InputError(None, "thickness_m", "give the section thickness and the heat-transfer coefficient together")
-        _check("thickness_m", thickness_m)
-        _check("heat_transfer_W_m2K", heat_transfer_W_m2K)
         tau, biot = lumped_time_constant(thickness_m, heat_transfer_W_m2K, shape=shape)
         aus = _start_C(alloy, austenitizing_C)
         equalize = tau * np.log(np.maximum(aus - kelvin_to_celsius(T), EQUALIZED_WITHIN_K) / EQUALIZED_WITHIN_K)

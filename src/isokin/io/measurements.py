@@ -21,9 +21,9 @@ from pathlib import Path
 
 import numpy as np
 
-from ..results import Measurements
-from ..constants import celsius_to_kelvin
+from ..constants import celsius_to_kelvin, kelvin_to_celsius
 from ..errors import InputError
+from ..results import Measurements
 from .schema import parse_number, read_input_file
 
 CURVE_COLUMNS = ("temperature_C", "time_s", "fraction")
@@ -92,6 +92,6 @@ def read_measurements(path, product_names=()):
         falling = np.nonzero(np.diff(X[order]) < 0)[0]
         if falling.size:
             raise InputError(path, f"row {lines[order[falling[0] + 1]]}", f"the fraction falls with time within the "
-                             f"isotherm at {key[0] - 273.15:g} °C; a transformation does not go back")
+                             f"isotherm at {kelvin_to_celsius(key[0]):g} °C; a transformation does not go back")
     digest = hashlib.sha256(text.encode("utf-8")).hexdigest()
     return Measurements(T, X, t, tuple(products), source=str(path), rows=tuple(lines)), digest

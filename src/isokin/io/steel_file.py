@@ -23,7 +23,7 @@ from ..products.steel import (
 from ..products.steel_kinetics import PRODUCT_SIGN, SQRT_PREFIX
 from ..relations.composition import ELEMENTS
 from .alloy_file import load_alloy
-from .schema import Key, parse_toml, read_table
+from .schema import Key, read_table
 
 TABLES = ("composition", "steel", "composition_range")
 
@@ -136,8 +136,8 @@ def load_calibration(path) -> Calibration:
     another analysis: its kinetic model, its ``[steel.kinetics]`` overrides and the record of
     the fit with the reference analysis and the file it came from."""
     path = Path(path)
-    alloy = load_alloy(path)  # checks every table as an alloy file
-    data = parse_toml(path)
+    alloy = load_alloy(path)  # checks every table as an alloy file, and keeps them as read
+    data = alloy.inputs
     if alloy.model != "steel":
         raise InputError(path, "alloy.model", "a calibration to apply to a steel heat comes from a steel file")
     if "calibration" not in data:

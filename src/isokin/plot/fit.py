@@ -5,15 +5,17 @@ from __future__ import annotations
 import matplotlib.pyplot as plt
 import numpy as np
 
-from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
+from ..constants import kelvin_to_celsius
 from ..readout import CAUTION_SHORT
-from .ttt import OVERALL_COLOUR, literal, log_time_axis
+from .ttt import OVERALL_COLOUR, literal, log_time_axis, to_units
 
 
 def fit_figure(result, curves, units="C"):
     """``curves`` = (T_K, times, lo, hi) of :func:`isokin.compute.fit.band` at fractions 0.01, 0.5, 0.99."""
     T, centre, lo, hi = curves
-    to = celsius_to_fahrenheit if units == "F" else (lambda c: c)
+    def to(t_c):
+        return to_units(t_c, units)
+
     fig, (ax, res) = plt.subplots(1, 2, figsize=(10.5, 5.8), layout="constrained", width_ratios=(3, 1.3))
     y = to(kelvin_to_celsius(T))
     for k, (style, label) in enumerate(((":", "1 %"), ("-", "50 %"), ("--", "99 %"))):
