@@ -40,6 +40,25 @@ def batch_leading(value, batch_ndim: int, query_ndim: int):
     return value.reshape(value.shape + (1,) * extra) if extra > 0 else value
 
 
+def answer_shape(batch_shape: tuple, T, query_ndim: int) -> tuple:
+    """The shape of a product's answer to a query T of ``query_ndim`` dimensions, the batch leading.
+
+    >>> answer_shape((3,), np.zeros((1, 5)), 2)
+    (3, 5)
+    """
+    return np.broadcast_shapes(np.shape(T), tuple(batch_shape) + (1,) * max(query_ndim - len(batch_shape), 0))
+
+
+def record(value):
+    """A float for a single value, a list for a batch: as a JSON record writes it.
+
+    >>> record(np.array(3.0)), record([1.0, 2.0])
+    (3.0, [1.0, 2.0])
+    """
+    value = np.asarray(value, dtype=float)
+    return float(value) if value.ndim == 0 else value.tolist()
+
+
 def plain(value):
     """A float for a single parameter set, the array for a batch.
 

@@ -4,7 +4,7 @@ Ae1 and Ae3 come from Andrews (1965), Ms and Bs from the chosen correlations, an
 the kinetic model (the one its bainite is measured from) from that model's own correlation.
 Temperatures that cannot be are answers, not errors, where they have a meaning: Bs below
 absolute zero means no bainite, Ms below it no martensite, Bs above Ae1 is capped at Ae1
-(bainite never forms above the eutectoid temperature). Only Ae1 or Ae3 outside 0 K to
+(bainite never forms above the eutectoid temperature: common practice). Only Ae1 or Ae3 outside 0 K to
 1400 °C (a correlation extrapolated past the solidus of steels) leave a heat that cannot be
 computed: a single heat is refused with one line naming the correlation and the elements that
 drive it; in a batch that heat is marked invalid and named in a warning, and the others stand.

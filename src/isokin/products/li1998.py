@@ -33,6 +33,7 @@ from __future__ import annotations
 from types import MappingProxyType
 
 from ..constants import CALORIE_J
+from ..relations.steel_critical import LOW_ALLOY_STEELS_MASS_PERCENT
 from .steel_kinetics import Coefficients, KineticsModel
 
 LI1998_REFERENCE = (
@@ -44,14 +45,7 @@ LI1998_LABEL = "Li et al. (1998)"
 #: Composition range (mass %) inside which no warning is given. The paper's own stated
 #: range could not be confirmed (see the module docstring); this is an assumption: the
 #: low-alloy heat-treatable steels of the SAE 10xx-94xx families the model was built for.
-LI1998_RANGES_MASS_PERCENT = {
-    "C": (0.1, 0.8),
-    "Mn": (0.2, 2.0),
-    "Si": (0.0, 1.0),
-    "Ni": (0.0, 3.5),
-    "Cr": (0.0, 1.5),
-    "Mo": (0.0, 0.6),
-}
+LI1998_RANGES_MASS_PERCENT = LOW_ALLOY_STEELS_MASS_PERCENT
 
 _LI = dict(reaction_exponent=0.4, grain_size_offset=0.0)
 #: Li et al. (1998) as recalled (see the module docstring for the doubt on ferrite's Q).

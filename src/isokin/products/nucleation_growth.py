@@ -29,7 +29,7 @@ from ..relations.nucleation import (
     shape_factor_spherical_cap,
 )
 from .alloy import UPPER_MARGIN_K, Alloy
-from .base import as_query, batch_leading, plain
+from .base import answer_shape, as_query, batch_leading, plain
 
 DRIVING_FORCE_FORMS = ("turnbull", "hoffman", "table")
 
@@ -155,7 +155,7 @@ class NucleationGrowthProduct:
     def equilibrium_fraction(self, T_K):
         """1: the product takes all of the parent at completion (batch axes lead)."""
         T, q = as_query(T_K)
-        return np.ones(np.broadcast_shapes(T.shape, self._batch_shape + (1,) * max(q - len(self._batch_shape), 0)))
+        return np.ones(answer_shape(self._batch_shape, T, q))
 
     def _upper_temperature(self):
         p, f = self.params, self._fields

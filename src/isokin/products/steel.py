@@ -31,12 +31,12 @@ from ..relations.steel_critical import (
     lever_rule_ferrite_fraction,
 )
 from .alloy import UPPER_MARGIN_K, Alloy
-from .base import as_query, batch_leading, plain
+from .base import as_query, batch_leading, plain, record
 from .critical import BS_METHODS, DEFAULT_BS_METHOD, DEFAULT_MS_METHOD, MS_METHODS, critical_temperatures, heats_text
 from .kirkaldy1984 import KV1984
 from .li1998 import LI1998
 from .martensite import Martensite
-from .steel_kinetics import PRODUCT_SIGN, SQRT_PREFIX, Coefficients, SteelProduct
+from .steel_kinetics import PRODUCT_SIGN, SQRT_PREFIX, Coefficients, SteelProduct, term_elements
 
 #: ASTM E112 grain size numbers run from 00 (written -1 here) to about 14.
 GRAIN_SIZE_RANGE = (-1.0, 14.0)
@@ -146,8 +146,8 @@ class Calibration:
 
 
 def _valid_term(key: str) -> bool:
-    return all(symbol in ELEMENTS for symbol in key.removeprefix(SQRT_PREFIX).split(PRODUCT_SIGN)) and \
-        key.count(PRODUCT_SIGN) <= 1 and not (key.startswith(SQRT_PREFIX) and PRODUCT_SIGN in key)
+    return all(symbol in ELEMENTS for symbol in term_elements(key)) and key.count(PRODUCT_SIGN) <= 1 and \
+        not (key.startswith(SQRT_PREFIX) and PRODUCT_SIGN in key)
 
 
 def kinetics_with(model_key: str = DEFAULT_KINETICS, overrides: Mapping | None = None) -> dict:
@@ -242,11 +242,6 @@ def _as_mapping(composition):
     if not isinstance(composition, Mapping):
         raise InputError(None, "composition", "must map element symbols to mass %, e.g. {'C': 0.4, 'Mn': 0.8}")
     return dict(composition)
-
-
-def _record(value):
-    value = np.asarray(value, dtype=float)
-    return float(value) if value.ndim == 0 else value.tolist()
 
 
 def _choice(key, value, choices, default):
@@ -375,12 +370,12 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
     warnings = [*assumed, *critical.warnings, *line_warnings,
                 *_analysis_warnings(comp, critical, model, austenitizing_temperature_C)]
 
-    options = {"grain_size_astm": _record(grain if batch != () else float(grain)), "ms_method": ms_method,
+    options = {"grain_size_astm": record(grain if batch != () else float(grain)), "ms_method": ms_method,
                "bs_method": bs_method, "kinetics_model": model_key}
     if austenitizing_temperature_C is not None:
         options["austenitizing_temperature_C"] = austenitizing_temperature_C
     if inputs is None:
-        inputs = {"composition": {k: _record(v) for k, v in mass_percent.items()}, "steel": dict(options)}
+        inputs = {"composition": {k: record(v) for k, v in mass_percent.items()}, "steel": dict(options)}
     carbon_balance = CarbonBalance(np.asarray(comp.C), np.asarray(comp.Si + comp.Al >= CARBIDE_FREE_SI_AL))
     methods = {k: critical.methods[k] for k in lines if k in critical.methods}
     km = f"Koistinen-Marburger (1959), alpha = {KOISTINEN_MARBURGER_ALPHA_PER_K} /K, from Ms of {MS_METHODS[ms_method][1]}"
@@ -439,7 +434,7 @@ def _kinetics_provenance(model, critical, products, overrides):
         "kinetics_reference": model.reference,
         "bainite_start": {"method": critical.methods["bainite_start"],
                           # none (null) where the heat is invalid or its Bs lies below absolute zero
-                          "temperature_C": _record(np.where(critical.valid & (critical.bainite_start_K > 0.0),
+                          "temperature_C": record(np.where(critical.valid & (critical.bainite_start_K > 0.0),
                                                             kelvin_to_celsius(critical.bainite_start_K), np.nan))},
         "product_domains": DOMAINS,
         "ferrite_equilibrium": LeverRuleFerrite.method,
@@ -479,7 +474,7 @@ def _analysis_warnings(comp, critical, model, austenitizing_temperature_C):
         warnings.append(f"carbon is at or above the eutectoid content{heats_text(hyper)}: no proeutectoid ferrite; "
                         "proeutectoid cementite (Acm) is not modelled")
     if austenitizing_temperature_C is not None:
-        full = np.where(critical.hypoeutectoid, critical.ae3_K, critical.ae1_K)
+        full = critical.ae3_K  # Ae1 at and above the eutectoid carbon
         cold = (celsius_to_kelvin(austenitizing_temperature_C) <= full) & critical.valid
         if np.any(cold):
             label = "Ae3" if np.all(critical.hypoeutectoid) else "Ae1" if not np.any(critical.hypoeutectoid) else None
@@ -525,10 +520,5 @@ def rebuild(alloy: Alloy, mass_percent=None, kinetics=None) -> Alloy:
                     ms_method=options["ms_method"], bs_method=options["bs_method"],
                     kinetics_model=options["kinetics_model"],
                     kinetics=options["kinetics"] if kinetics is None else kinetics,
-                    inputs=alloy.inputs if own else None)
-    calibration = options.get("calibration")
-    if calibration is not None:
-        rebuilt = rebuilt.replace(provenance={**rebuilt.provenance, "calibration": dict(calibration.record)},
-                                  options={**rebuilt.options, "calibration": calibration},
-                                  footer=rebuilt.footer + "; calibrated")
+                    calibration=options.get("calibration"), inputs=alloy.inputs if own else None)
     return rebuilt

@@ -5,7 +5,8 @@ ferrite-pearlite as linear functions of composition (mass %) and of log10 of the
 rate Vr at 700 °C in °C/h; a mixture is taken as the volume-fraction average (common
 practice). The coefficients below are from memory: the paper could not be reached here.
 Their martensite hardness rises linearly with carbon without limit; the hardness of
-as-quenched martensite that practice measures levels off above about 0.6 % C, as the
+as-quenched martensite that practice measures levels off above about 0.6 % C (common
+practice, from memory), as the
 carbon polynomial of ASTM A255 does (:func:`hrc_martensite_astm_a255`), which the mixture
 uses for martensite of the carbon it formed from.
 
@@ -155,8 +156,9 @@ def hrc_martensite_astm_a255(carbon):
     -----
     The polynomial for the hardness of the quenched end of the end-quench test, which is
     as-quenched martensite; depends on carbon alone (alloying moves the hardenability, not
-    the hardness of martensite). Coefficients from memory of the standard; the levelling off
-    above about 0.6 % C is the measured behaviour of martensite with some retained austenite.
+    the hardness of martensite: common practice). Coefficients from memory of the standard;
+    the levelling off above about 0.6 % C is the measured behaviour of martensite with some
+    retained austenite (common practice, from memory).
 
     Reference: ASTM A255, "Standard Test Methods for Determining Hardenability of Steel".
 

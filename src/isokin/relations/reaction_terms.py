@@ -287,9 +287,10 @@ class ReactionTerm:
         if self.upper is None:
             piece_value = self.lower.forward(y)
             values = np.where(upper, self.complete - piece_value, piece_value)
-        else:
-            values = np.where(upper, self.upper.forward(np.where(upper, y, 0.0)),
-                              self.lower.forward(np.where(upper, 0.0, y)))
+        else:  # each half's table only on its own values
+            values = np.empty(y.shape)
+            values[upper] = self.upper.forward(y[upper])
+            values[~upper] = self.lower.forward(y[~upper])
         return _out(values)
 
     def inverse(self, S):
@@ -301,8 +302,9 @@ class ReactionTerm:
         if self.upper is None:
             y = self.lower.inverse(np.where(upper, self.complete - S, S))
         else:
-            y = np.where(upper, self.upper.inverse(np.where(upper, S, self.complete)),
-                         self.lower.inverse(np.where(upper, 0.0, S)))
+            y = np.empty(S.shape)
+            y[upper] = self.upper.inverse(S[upper])
+            y[~upper] = self.lower.inverse(S[~upper])
         return _out(np.where(upper, 1.0 - y, y))
 
     def rate_shape(self, X):

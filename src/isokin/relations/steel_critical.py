@@ -26,6 +26,10 @@ KOISTINEN_MARBURGER_ALPHA_PER_K = 0.011
 #: the limits are assumptions, the levels of the low-alloy and microalloyed steels such
 #: formulas are used for (his own limits could not be checked).  Steven & Haynes (1956):
 #: about 0.1-0.55 C, 0.2-1.7 Mn, up to 5 Ni, 3.5 Cr, 1 Mo (from memory).
+#: The low-alloy heat-treatable steels (SAE 10xx-94xx) the empirical kinetic models were built
+#: for, mass %: an assumption (their papers' own ranges could not be confirmed).
+LOW_ALLOY_STEELS_MASS_PERCENT = {"C": (0.1, 0.8), "Mn": (0.2, 2.0), "Si": (0.0, 1.0), "Ni": (0.0, 3.5),
+                                 "Cr": (0.0, 1.5), "Mo": (0.0, 0.6)}
 _ANDREWS_MS_RANGE = {"C": (0.11, 0.6), "Mn": (0.0, 4.9), "Ni": (0.0, 5.0), "Cr": (0.0, 4.6), "Mo": (0.0, 5.4)}
 CALIBRATED_RANGES = {
     "Andrews (1965), Ae1/Ae3": {"C": (0.0, 0.6), "Mn": (0.0, 2.0), "Si": (0.0, 2.0), "Ni": (0.0, 5.0),
@@ -43,10 +47,8 @@ CALIBRATED_RANGES = {
     "van Bohemen (2012), Bs": {"C": (0.1, 1.0), "Mn": (0.0, 2.0), "Si": (0.0, 2.0), "Ni": (0.0, 4.0),
                                "Cr": (0.0, 3.5), "Mo": (0.0, 1.5)},
     # the low-alloy steels of the kinetic models (an assumption, as for their kinetics)
-    "Kirkaldy & Venugopalan (1984), Bs": {"C": (0.1, 0.8), "Mn": (0.2, 2.0), "Si": (0.0, 1.0), "Ni": (0.0, 3.5),
-                                          "Cr": (0.0, 1.5), "Mo": (0.0, 0.6)},
-    "Li et al. (1998), Bs": {"C": (0.1, 0.8), "Mn": (0.2, 2.0), "Ni": (0.0, 3.5), "Cr": (0.0, 1.5),
-                             "Mo": (0.0, 0.6)},
+    "Kirkaldy & Venugopalan (1984), Bs": LOW_ALLOY_STEELS_MASS_PERCENT,
+    "Li et al. (1998), Bs": {e: r for e, r in LOW_ALLOY_STEELS_MASS_PERCENT.items() if e != "Si"},
 }
 
 
@@ -521,7 +523,8 @@ def bs_kirkaldy_venugopalan_1984(composition: Composition):
     The Bs from which the bainite of their kinetic model is measured. Coefficients confirmed
     against Eq. (2) of the 2019 review of Bs equations in Metall. Mater. Trans. A (doi
     10.1007/s11661-019-05371-1), which quotes 656 - 57.7 C - 75 Si - 35 Mn - 15.3 Ni - 34 Cr
-    - 41.2 Mo (the rounded values are used here, as the model is usually quoted).
+    - 41.2 Mo. The rounded values 58, 15 and 41 are used here (as recalled from the
+    original, not confirmed); they move Bs by up to about 1 K against the review's.
 
     Reference: J. S. Kirkaldy and D. Venugopalan, in Phase Transformations in Ferrous
     Alloys, TMS-AIME (1984) 125-148.
