@@ -22,7 +22,8 @@ DEMO_ALLOY = ROOT / "alloys" / "brackwater-bw52crv.toml"
 DEMO_DATA = ROOT / "alloys" / "brackwater-bw52crv-dilatometer.csv"
 
 
-def refused(args, option, words):
+def refused_by_cli(args, option, words):
+    """The CLI refuses ``args`` in one line naming ``option`` and saying ``words``; exit 2."""
     code, out, err, _ = run_main(*args)
     lines = err.strip().splitlines()
     assert code == 2 and len(lines) == 1, err
@@ -42,7 +43,7 @@ def test_a_bad_section_is_refused_by_both(arguments, key, option, words, tmp_pat
     assert caught.value.key == key
     with pytest.raises(isokin.InputError):
         lumped_time_constant(given["thickness_m"], given["heat_transfer_W_m2K"], shape=given["shape"])
-    refused(["cool", STEEL_FILE, "--medium-c", 60, "--thickness-mm", given["thickness_m"] * 1e3,
+    refused_by_cli(["cool", STEEL_FILE, "--medium-c", 60, "--thickness-mm", given["thickness_m"] * 1e3,
              "--htc", given["heat_transfer_W_m2K"], "--shape", given["shape"], "--out", tmp_path], option, words)
     assert not any(tmp_path.iterdir())
 
@@ -56,7 +57,7 @@ def test_a_cooling_log_that_stays_hot_is_refused_by_both(tmp_path):
     with pytest.raises(isokin.InputError, match="never cools below") as caught:
         isokin.cool(alloy, measured([0.0, 10.0], [900.0, 880.0]))
     assert caught.value.key == "path"
-    refused(["cool", STEEL_FILE, "--log", log, "--out", tmp_path / "out"], "--log", "never cools below")
+    refused_by_cli(["cool", STEEL_FILE, "--log", log, "--out", tmp_path / "out"], "--log", "never cools below")
     # one path that does cool is enough
     cooled = isokin.cool(alloy, [measured([0.0, 10.0], [900.0, 880.0]), isokin.constant_rate(10.0, 850.0)])
     assert cooled.final["martensite"].shape == (2,)
@@ -69,7 +70,7 @@ def test_a_bootstrap_beyond_the_limit_is_refused_by_both(tmp_path):
         with pytest.raises(isokin.InputError, match="from 0 to") as caught:
             F.fit(alloy, data, bootstrap=bad)
         assert caught.value.key == "bootstrap"
-    refused(["fit", DEMO_DATA, "--alloy", DEMO_ALLOY, "--out", tmp_path / "c.toml", "--bootstrap",
+    refused_by_cli(["fit", DEMO_DATA, "--alloy", DEMO_ALLOY, "--out", tmp_path / "c.toml", "--bootstrap",
              F.MAX_BOOTSTRAP + 1], "--bootstrap", "from 0 to")
     assert not any(tmp_path.iterdir())
 
@@ -97,3 +98,21 @@ def test_an_analysis_without_a_grain_size_says_so_in_both():
     # and the default name is the library's
     assert out.startswith(f"{alloy.name}:")
     assert np.isclose(float(alloy.options["grain_size_astm"]), 7.0)
+
+
+def test_a_negative_seed_is_refused_by_both(tmp_path):
+    # once a traceback from numpy's generator
+    alloy = isokin.load_alloy(STEEL_FILE)
+    with pytest.raises(isokin.InputError, match="whole number") as caught:
+        isokin.spread(alloy, {"C": ("range", 0.38, 0.43)}, samples=10, seed=-1)
+    assert caught.value.key == "seed"
+    refused_by_cli(["spread", STEEL_FILE, "--seed", -1, "--out", tmp_path], "--seed", "whole number")
+    refused_by_cli(["plan", STEEL_FILE, "--route", "austemper", "--worst-case", "--seed", -1, "--out", tmp_path],
+            "--seed", "whole number")
+
+
+def test_an_unknown_kinetic_model_is_the_options_fault_not_the_files(tmp_path):
+    with pytest.raises(isokin.InputError) as caught:
+        isokin.load_alloy(STEEL_FILE, kinetics_model="nope")
+    assert caught.value.source is None and caught.value.key == "steel.kinetics_model"
+    refused_by_cli(["diagram", STEEL_FILE, "--kinetics", "nope", "--out", tmp_path], "--kinetics", "must be one of")

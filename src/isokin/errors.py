@@ -1,5 +1,6 @@
 """The error a user sees: one line naming the file, the key, what is wrong and what is right."""
 
+import operator
 import re
 
 #: Control characters (newlines included) never reach the terminal raw: a message stays one line.
@@ -33,3 +34,20 @@ class InputError(Exception):
         """The same error, from ``source`` and with the key renamed through ``keys``."""
         key = (keys or {}).get(self.key, self.key)
         return InputError(source if source is not None else self.source, key, self.problem)
+
+
+def whole_number(key, value, low=0, high=None) -> int:
+    """``value`` as an int (an int or a numpy integer, never a float) from ``low`` to ``high``;
+    InputError naming ``key`` otherwise.
+
+    >>> whole_number("seed", 3)
+    3
+    """
+    try:
+        number = operator.index(value)
+    except TypeError:
+        number = None
+    if number is None or number < low or (high is not None and number > high):
+        span = f"from {low} to {high}" if high is not None else f"of {low} or more"
+        raise InputError(None, key, f"must be a whole number {span}, got {value!r}")
+    return number

@@ -22,7 +22,7 @@ def cct(
     alloy_file: AlloyArg = None,
     inline: Inline = None,
     rates: Annotated[Optional[str], typer.Option("--rates", metavar="K_PER_S,...",
-                     help="Constant cooling rates, K/s, comma-separated (default 21 from 0.01 to 1000).")] = None,
+                     help="Constant cooling rates, K/s, comma-separated (default from 0.01 to 1000).")] = None,
     start_c: Annotated[Optional[float], typer.Option("--start-c", parser=decimal_number, metavar="NUMBER",
                        help="Start of cooling, °C (default the highest temperature where a product forms).")] = None,
     out: OutOpt = Path("isokin-out"),
@@ -145,9 +145,7 @@ def cool(
             out / f"{stem}-cool.csv": lambda p: write_cooling_csv(result, p),
             out / f"{stem}-cool-summary.json": lambda p: write_json(cooling_summary(result), p)})
 
-    keys = {"shape": "--shape", "thickness_m": "--thickness-mm", "heat_transfer_W_m2K": "--htc",
-            "time_constant_s": "--time-constant-s", "medium_C": "--medium-c", "end_C": "--medium-c",
-            "path": "--log" if log is not None else "--medium-c"}
+    keys = {"end_C": "--medium-c", "path": "--medium-c"} if medium_c is not None else {"path": "--log"}
     run(lambda: load(alloy_file, inline), solve, overwrite=overwrite, keys=keys)
 
 
@@ -158,9 +156,9 @@ def _rates(text: Optional[str]):
     from ..io.schema import parse_number
 
     values = [parse_number(v) for v in text.replace(";", ",").split(",") if v.strip()]
-    if not values or any(v is None or v <= 0 for v in values):
-        raise InputError(None, "--rates", f"{text!r} is not a list of positive cooling rates in K/s, e.g. 0.1,1,10,100")
-    return values
+    if not values or any(v is None for v in values):
+        raise InputError(None, "--rates", f"{text!r} is not a list of cooling rates in K/s, e.g. 0.1,1,10,100")
+    return values  # the library refuses rates that are not positive
 
 
 def _final_table(labels, result, units):

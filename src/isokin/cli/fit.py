@@ -75,7 +75,7 @@ def fit(
             out.with_name(f"{stem}-fit.json"): lambda p: write_json(fit_report(result, data_file.name, digest, date), p),
             out.with_name(f"{stem}-fit.png"): Drawing(draw)})
 
-    run(load, solve, overwrite=overwrite, keys={"free": "--free", "data": "DATA", "bootstrap": "--bootstrap"})
+    run(load, solve, overwrite=overwrite, keys={"free": "--free", "data": "DATA"})
 
 
 def _print_fit(alloy, data, result, units):

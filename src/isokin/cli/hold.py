@@ -10,7 +10,8 @@ import typer
 
 from ..errors import InputError
 from ..readout import format_austenite_left, format_duration
-from .options import AlloyArg, Inline, OutOpt, OverwriteOpt, Units, UnitsOpt, decimal_number, in_units, steel_options
+from .options import (AlloyArg, Inline, OutOpt, OverwriteOpt, Units, UnitsOpt, decimal_number, duration, in_units,
+                      steel_options)
 from .runner import Outcome, load, run
 
 
@@ -78,12 +79,7 @@ def _durations(times: list, grid: Optional[str]) -> list:
     """Hold times in seconds from --time values and a --times START..END/N grid (log-spaced)."""
     from ..io.schema import parse_duration
 
-    seconds = []
-    for text in times or []:
-        value = parse_duration(text)
-        if value is None:
-            raise InputError(None, "--time", f"{text!r} is not a duration; write e.g. 90s, 30min, 2h, 1.5d or seconds")
-        seconds.append(value)
+    seconds = [duration(text, "--time") for text in times or []]
     if grid is not None:
         span, _, count = grid.partition("/")
         start, sep, end = span.partition("..")

@@ -14,6 +14,7 @@ from typing import Annotated, Optional
 
 import typer
 
+from ..errors import InputError
 from ..readout import format_temperature
 
 
@@ -40,6 +41,16 @@ def decimal_number(text: str) -> float:
     value = parse_number(text)
     if value is None:
         raise typer.BadParameter(f"must be a plain finite decimal number such as 0.5 or 850, got {text!r}")
+    return value
+
+
+def duration(text: str, option: str) -> float:
+    """Seconds from a duration as typed (90s, 30min, 2h, 1.5d or seconds); one line naming the option otherwise."""
+    from ..io.schema import parse_duration
+
+    value = parse_duration(text)
+    if value is None:
+        raise InputError(None, option, f"{text!r} is not a duration; write e.g. 90s, 30min, 2h, 1.5d or seconds")
     return value
 
 

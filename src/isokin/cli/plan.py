@@ -12,7 +12,7 @@ import typer
 from ..errors import InputError
 from ..readout import format_duration
 from .options import (AlloyArg, FigureFormat, FormatOpt, Inline, OutOpt, OverwriteOpt, RangeOpt, SamplesOpt, SeedOpt,
-                      Units, UnitsOpt, decimal_number, in_units, steel_options)
+                      Units, UnitsOpt, decimal_number, duration, in_units, steel_options)
 from .runner import Drawing, Outcome, load, run
 from .spread import heats
 from .status import status
@@ -26,7 +26,7 @@ class Route(str, Enum):
 
 #: The library's keys of a plan as this command's options name them.
 _PLAN_KEYS = {"max_hold_s": "--max-hold", "margin_K": "--margin-k", "safety": "--safety", "budget_s": "--budget",
-              "thickness_m": "--thickness-mm", "heat_transfer_W_m2K": "--htc", "route": "--route"}
+              "route": "--route"}
 
 
 @steel_options
@@ -116,14 +116,7 @@ def plan(
 
 
 def _duration_option(text: Optional[str], option: str) -> Optional[float]:
-    if text is None:
-        return None
-    from ..io.schema import parse_duration
-
-    value = parse_duration(text)
-    if value is None or value <= 0:
-        raise InputError(None, option, f"{text!r} is not a duration; write e.g. 90s, 30min, 2h, 1.5d or seconds")
-    return value
+    return None if text is None else duration(text, option)  # the plan refuses a limit that is not above 0
 
 
 #: Plan columns as printed: heading, and whether the value is a duration.

@@ -31,6 +31,19 @@ OPTION_NAMES = {
     "points": "--points",
     "fractions": "--fraction",
     "samples": "--samples",
+    "seed": "--seed",
+    "temperature_C": "--temperature-c",
+    "time_s": "--time",
+    "quench_to_C": "--quench-to-c",
+    "rate_K_s": "--rate",
+    "rates_K_s": "--rates",
+    "start_C": "--start-c",
+    "medium_C": "--medium-c",
+    "time_constant_s": "--time-constant-s",
+    "thickness_m": "--thickness-mm",
+    "heat_transfer_W_m2K": "--htc",
+    "shape": "--shape",
+    "bootstrap": "--bootstrap",
 }
 
 
@@ -73,7 +86,8 @@ def load(alloy_file: Optional[Path], inline: Inline):
     if inline.composition is None:
         if alloy_file is None:
             raise InputError(None, "ALLOY", "name an alloy file (alloys/*.toml) or give --composition \"C=0.8,Mn=0.7\"")
-        for option in inline.given():
+        option = next(iter(inline.given()), None)
+        if option is not None:
             raise InputError(None, option, "goes with --composition; an alloy file sets it itself")
         from ..io.alloy_file import load_alloy
 

@@ -91,7 +91,7 @@ def constant_rate(rate_K_s, start_C, end_C=20.0):
     if not (np.isfinite(rate) and rate > 0):
         raise InputError(None, "rate_K_s", f"must be a positive finite cooling rate in K/s, got {rate_K_s!r}")
     if not end_C < start_C:
-        raise InputError(None, "end_C", "must lie below the start temperature")
+        raise InputError(None, "end_C", f"{end_C:g} °C must lie below the start temperature, {start_C:g} °C")
     T = np.linspace(celsius_to_kelvin(start_C), celsius_to_kelvin(end_C),
                     int(np.ceil((start_C - end_C) / MAX_STEP_K)) + 1)
     return CoolingPath((T[0] - T) / rate, T, f"{rate:g} K/s")

@@ -18,13 +18,12 @@ Free parameters are named ``<product>.<parameter>``:
 
 from __future__ import annotations
 
-import operator
 import warnings
 
 import numpy as np
 
 from ..constants import kelvin_to_celsius
-from ..errors import InputError
+from ..errors import InputError, whole_number
 from ..results import FitResult, Measurements
 from .decomposition import Decomposition
 from .ttt import ttt
@@ -147,12 +146,7 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
 
     if alloy.batch_shape:
         raise InputError(None, "alloy", "a fit takes one alloy, not a batch")
-    try:
-        resamples = operator.index(bootstrap)  # a whole number (int or numpy integer), not a float
-    except TypeError:
-        resamples = -1
-    if not 0 <= resamples <= MAX_BOOTSTRAP:
-        raise InputError(None, "bootstrap", f"must be a whole number from 0 to {MAX_BOOTSTRAP}, got {bootstrap}")
+    whole_number("bootstrap", bootstrap, 0, MAX_BOOTSTRAP)
     free = tuple(default_free(alloy, data) if free is None else free)
     _check_free(alloy, free)
     m, k = data.time_s.size, len(free)

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..errors import InputError
+from ..errors import InputError, whole_number
 from ..results import Noses, SpreadResult
 from .ttt import ttt
 
@@ -59,6 +59,7 @@ def sample_compositions(composition: dict, ranges: dict, samples=DEFAULT_SAMPLES
     """Element -> array of ``samples`` contents, a Latin hypercube over the ranged elements."""
     if not 2 <= samples <= MAX_SAMPLES:
         raise InputError(None, "samples", f"must lie from 2 to {MAX_SAMPLES}, got {samples}")
+    whole_number("seed", seed)
     nominal = nominal_of(composition, ranges)
     names = list(ranges)
     out = {k: np.full(samples, float(v)) for k, v in nominal.items()}

@@ -79,7 +79,11 @@ def load_alloy(path, kinetics_model=None):
 
 
 def _with_kinetics_model(path, data, kinetics_model):
-    """The file's tables with another steel kinetic model, where that can be."""
+    """The file's tables with another steel kinetic model, where that can be (a model that does
+    not exist is the argument's fault, not the file's)."""
+    from ..products.steel import kinetics_model_key  # only here: loaders are imported by model
+
+    kinetics_model_key(kinetics_model)
     steel = data.get("steel")
     if not isinstance(steel, dict) or data.get("alloy", {}).get("model") != "steel":
         raise InputError(path, "steel.kinetics_model", "a kinetic model is chosen for steels (model = 'steel') only")

@@ -419,7 +419,7 @@ def _kinetics(kinetics_model, kinetics, calibration):
             raise InputError(None, "steel.kinetics_model", f"is {kinetics_model!r}, but the calibration was fitted "
                              f"with {calibration.kinetics_model!r}; give that model or none")
         kinetics_model = calibration.kinetics_model
-    model_key = _choice("steel.kinetics_model", kinetics_model, KINETICS_MODELS, DEFAULT_KINETICS)
+    model_key = kinetics_model_key(kinetics_model)
     overrides = {**(calibration.kinetics if calibration is not None else {})}
     for product, change in (kinetics or {}).items():
         base = overrides.get(product, {})
@@ -442,6 +442,12 @@ def _kinetics_provenance(model, critical, products, overrides):
         "kinetics_overridden": sorted(overrides),
         "kinetics_note": model.provenance,
     }
+
+
+def kinetics_model_key(value=None) -> str:
+    """The key of a kinetic model as given (default :data:`DEFAULT_KINETICS`); InputError unless
+    it is one of :data:`KINETICS_MODELS`."""
+    return _choice("steel.kinetics_model", value, KINETICS_MODELS, DEFAULT_KINETICS)
 
 
 def _check_austenitizing(temperature_C):
