@@ -6,6 +6,7 @@ austenite left after a partial ferrite or carbide-free bainite hold is richer in
 its Ms is lower and more of it is retained on quenching.
 """
 
+import json
 import math
 from pathlib import Path
 
@@ -17,9 +18,10 @@ from hypothesis import strategies as st
 import isokin
 from isokin.constants import celsius_to_kelvin, kelvin_to_celsius
 from isokin.products.steel import CARBIDE_FREE_SI_AL
+from test_hardening import run_main
 
 ROOT = Path(__file__).resolve().parents[1]
-ALPHA_CARBON = 0.02  # mass %, ferrite's carbon (common practice)
+ALPHA_CARBON = 0.02  # mass %, ferrite's carbon (common practice, from memory)
 
 
 def vb_ms_C(c):
@@ -87,12 +89,6 @@ def test_the_austenite_never_loses_carbon_and_the_phases_still_sum_to_one(C, Mn,
 
 
 def test_cooling_reports_the_austenite_left_when_martensite_forms(tmp_path):
-    import json
-    import sys
-
-    sys.path.insert(0, str(Path(__file__).parent))
-    from test_hardening import run_main
-
     alloy = isokin.load_alloy(ROOT / "alloys" / "aisi-4140-crmo.toml")
     result = isokin.cool(alloy, [isokin.constant_rate(5.0, 845.0), isokin.constant_rate(100.0, 845.0)])
     f = result.final["ferrite"]
@@ -124,11 +120,6 @@ def test_as_quenched_plain_carbon_steel_saturates_and_follows_the_carbon_relatio
 
 
 def test_an_unreachable_target_hardness_is_said_plainly(tmp_path):
-    import sys
-
-    sys.path.insert(0, str(Path(__file__).parent))
-    from test_hardening import run_main
-
     code, out, err, _ = run_main("plan", ROOT / "alloys" / "brackwater-bw52crv.toml", "--route", "austemper",
                                  "--target-hv", "900", "--out", tmp_path)
     assert code == 0, err

@@ -9,6 +9,7 @@ import pytest
 
 import isokin
 from isokin.compute import fit as F
+from isokin.constants import celsius_to_kelvin, kelvin_to_celsius
 from isokin.io.measurements import read_measurements
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -22,7 +23,7 @@ T_C = (380.0, 420.0, 460.0)
 def synthetic(alloy, truth, noise, seed, temperatures=T_C, points=20, product=None):
     """Measurements generated from known parameters, with log-normal scatter in time (invented)."""
     rng = np.random.default_rng(seed)
-    T = np.repeat(np.array(temperatures) + 273.15, points)
+    T = np.repeat(celsius_to_kelvin(np.array(temperatures)), points)
     X = np.tile(np.linspace(0.05, 0.95, points), len(temperatures))
     names = (product,) * T.size
     exact = F.model_times(F.with_values(alloy, truth), F.Measurements(T, X, np.ones_like(T), names))
@@ -58,7 +59,7 @@ def test_no_free_parameters_reproduce_the_model_and_the_calibrated_file_reloads(
     np.testing.assert_allclose(none.residuals_ln_t, np.log(F.model_times(STEEL, data) / data.time_s), rtol=1e-12)
     csv = tmp_path / "holds.csv"
     csv.write_text("temperature_C,time_s,fraction\n" + "".join(
-        f"{T - 273.15:.6f},{float(t)!r},{float(x)!r}\n" for T, t, x in zip(data.temperature_K, data.time_s,
+        f"{kelvin_to_celsius(T):.6f},{float(t)!r},{float(x)!r}\n" for T, t, x in zip(data.temperature_K, data.time_s,
                                                                    data.fraction)))
     out = tmp_path / "calibrated.toml"
     code, text, err, _ = run_main("fit", csv, "--alloy", ROOT / "alloys" / "aisi-4140-crmo.toml", "--out", out,
@@ -135,7 +136,7 @@ def test_a_calibration_transfers_to_another_heat_by_the_models_own_composition_t
     data_f = synthetic(STEEL, {"ferrite.factor": 0.6}, 0.0, 1, temperatures=(650.0, 680.0), product="ferrite")
     rows = ["temperature_C,time_s,fraction,product"]
     for d in (data, data_f):
-        rows += [f"{T - 273.15:.6g},{float(t)!r},{float(x)!r},{p}"
+        rows += [f"{kelvin_to_celsius(T):.6g},{float(t)!r},{float(x)!r},{p}"
                  for T, t, x, p in zip(d.temperature_K, d.time_s, d.fraction, d.product)]
     (tmp_path / "a.csv").write_text("\n".join(rows) + "\n")
     code, _, err, _ = run_main("fit", tmp_path / "a.csv", "--alloy", ROOT / "alloys" / "aisi-4140-crmo.toml",

@@ -49,8 +49,8 @@ def test_a_bad_section_is_refused_by_both(arguments, key, option, words, tmp_pat
 
 
 def test_a_cooling_log_that_stays_hot_is_refused_by_both(tmp_path):
-    # 4140 first forms ferrite below its Ae3 (about 760 °C): a log from 900 to 880 °C has
-    # nothing to predict
+    # 4140 first forms ferrite below Andrews' Ae3 of its analysis (about 760 °C, as the library
+    # computes it): a log from 900 to 880 °C has nothing to predict
     log = tmp_path / "hot.csv"
     log.write_text("time_s,temperature_C\n0,900\n10,880\n")
     alloy = isokin.load_alloy(STEEL_FILE)
@@ -89,7 +89,8 @@ def test_a_notebook_writes_the_same_calibrated_file_as_the_command_line(tmp_path
 
 
 def test_an_analysis_without_a_grain_size_says_so_in_both():
-    # the library's default grain size, said as a warning whether called from Python or the CLI
+    # the library's default grain size (ASTM 7, its documented default), said as a warning
+    # whether called from Python or the CLI
     alloy = isokin.steel({"C": 0.4, "Mn": 0.8})
     assert alloy.warnings[0] == "no grain size given; taking ASTM 7"
     assert isokin.steel({"C": 0.4, "Mn": 0.8}, 7.0).warnings[:1] != ("no grain size given; taking ASTM 7",)

@@ -24,7 +24,6 @@ calorie, 4.184 J, and divided by the SI gas constant R = 8.314462618... J/(mol K
 import math
 from functools import lru_cache
 
-import mpmath
 import numpy as np
 import pytest
 import scipy.constants
@@ -39,7 +38,8 @@ from isokin.products.base import Product
 from isokin.products.kirkaldy1984 import KV1984, KV1984_KINETICS, KV1984_REFERENCE
 from isokin.products.steel_kinetics import SteelProduct
 from isokin.relations.composition import Composition
-from test_steel_li1998 import assert_times_ordered
+from test_reaction_terms import mp_S as mp_reaction_term
+from test_steel_li1998 import assert_times_ordered, grains, steels
 
 R = scipy.constants.R  # J/(mol K), exact since 2019
 CAL = scipy.constants.calorie  # thermochemical calorie, 4.184 J
@@ -101,22 +101,8 @@ def effective_activation_energy_cal(cls, s, T):
 
 @lru_cache(maxsize=None)
 def mp_S(X, c, p=P_KV):
-    """The reaction term by mpmath.quad (30 digits), with x = u**(1/(1-p)) removing the
-    x**-p singularity; the x = 1 end reached the same way from the mirrored side."""
-    with mpmath.workdps(30):
-        P, C, X = mpmath.mpf(p), mpmath.mpf(c), mpmath.mpf(X)
-        e = 1 / (1 - P)
-
-        def piece(y, mirrored):
-            def g(u):
-                x = u**e
-                return e * u ** (P * e * x) * (1 - x) ** (-P * x) * mpmath.exp(C * ((1 - x) if mirrored else x) ** 2)
-            return mpmath.quad(g, [0, y ** (1 - P)])
-
-        if X <= 0.5:
-            return float(piece(X, False))
-        half = mpmath.mpf(1) / 2
-        return float(piece(half, False) + piece(half, True) - piece(1 - X, True))
+    """The reaction term by mpmath.quad at 30 digits (the reference of tests/test_reaction_terms.py)."""
+    return mp_reaction_term(X, p, c)
 
 
 def tau_published(cls, s, G, T, X, upper=UPPER_K):
@@ -151,13 +137,6 @@ def _nose_K(product, X=0.01, h=1e-3):
     def slope(T):
         return (math.log(product.time_to_fraction(T + h, X)) - math.log(product.time_to_fraction(T - h, X))) / (2 * h)
     return brentq(slope, LOWER_K + 1.0, UPPER_K - 1.0, xtol=1e-10, rtol=1e-15)
-
-
-steels = st.fixed_dictionaries({
-    "C": st.floats(0.1, 0.6), "Mn": st.floats(0.3, 1.6), "Si": st.floats(0.0, 0.6),
-    "Ni": st.floats(0.0, 2.0), "Cr": st.floats(0.0, 1.2), "Mo": st.floats(0.0, 0.4),
-})
-grains = st.floats(3.0, 11.0)
 
 
 # ---------------------------------------------------------------------------------------

@@ -179,7 +179,7 @@ def test_one_astm_number_finer_shortens_times_by_two_to_the_grain_coefficient(cl
 
 
 def test_eutectoid_steel_pearlite_nose():
-    # Common practice: a plain eutectoid steel (about 0.8 C, 0.76 Mn, ASTM 6) starts
+    # Common practice (from memory): a plain eutectoid steel (about 0.8 C, 0.76 Mn, ASTM 6) starts
     # pearlite fastest between 500 and 600 C, in about one second.
     products, _, critical = li_steel({"C": 0.80, "Mn": 0.76}, 6.0)
     pearlite = products[1]

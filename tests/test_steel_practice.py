@@ -195,7 +195,8 @@ def test_a_coarser_grain_slows_the_upper_nose(steel, model):
 
 
 def test_bainite_never_forms_above_ae1_and_the_cap_is_said():
-    # Physical fact: bainite (ferrite + carbide) cannot form above the eutectoid temperature.
+    # Common practice (from memory): bainite (ferrite + carbide) does not form above the
+    # eutectoid temperature.
     # For C 0.10, Mn 0.5 van Bohemen's Bs (762 C) lies above Andrews' Ae1 (718 C).
     alloy = isokin.steel({"C": 0.10, "Mn": 0.5}, 7.0)
     ae1 = float(alloy.critical_K["Ae1"])
@@ -206,5 +207,7 @@ def test_bainite_never_forms_above_ae1_and_the_cap_is_said():
 
 
 def test_the_default_model_is_the_one_that_meets_more_of_the_facts():
-    # The checks above, counted per model (the expected failures are each model's shortfalls).
+    # Holds the documented choice: the default is the model that fails fewer of the checks
+    # above (each model's shortfalls are its strict expected failures, tabulated in the README's
+    # "How accurate is it").
     assert DEFAULT_KINETICS == KV
