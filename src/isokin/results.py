@@ -495,3 +495,47 @@ class SpreadResult:
         import pandas as pd  # on the first table only: start-up (module notes)
 
         return pd.DataFrame(self.curve_columns())
+
+
+@dataclass(frozen=True)
+class TemperingCurve:
+    """A measured tempering curve: hardness (HV) after tempering a fully hardened steel for
+    ``time_s`` at each temperature (K); where it comes from in ``source``."""
+
+    temperature_K: np.ndarray
+    hardness_HV: np.ndarray
+    time_s: np.ndarray
+    source: str = "tempering curve"
+
+
+@dataclass(frozen=True)
+class TemperResult:
+    """Tempers as data, one row per temper: temperature, time, Hollomon-Jaffe parameter, the
+    equivalent temperature of a 1 h temper, and the hardness read from the tempering curve
+    (NaN outside the curve's span). ``target_HV``: the hardness asked for, where the rows
+    answer "which temper reaches it" (None for "what does this temper give")."""
+
+    alloy: str
+    temperatures_C: np.ndarray
+    times_s: np.ndarray
+    parameter: np.ndarray
+    equivalent_1h_C: np.ndarray
+    hardness_HV: np.ndarray
+    constant: float
+    curve: TemperingCurve
+    target_HV: object = None
+    embrittlement: np.ndarray = None
+    warnings: tuple = ()
+    inputs: dict = field(default_factory=dict)
+    provenance: dict = field(default_factory=dict)
+
+    def to_frame(self):
+        """Tidy pandas table: one row per temper, the embrittlement range flagged."""
+        import pandas as pd  # on the first table only: start-up (module notes)
+
+        columns = {"temperature_C": self.temperatures_C, "time_s": self.times_s,
+                   "hollomon_jaffe_parameter": self.parameter, "equivalent_1h_temperature_C": self.equivalent_1h_C,
+                   "hardness_HV": self.hardness_HV, "embrittlement_range": self.embrittlement}
+        if self.target_HV is not None:
+            columns["target_HV"] = self.target_HV
+        return pd.DataFrame(columns)

@@ -12,6 +12,7 @@ from .fit import fit
 from .hold import hold
 from .plan import plan
 from .spread import compare, spread
+from .temper import temper
 
 app = typer.Typer(
     add_completion=False,
@@ -20,7 +21,7 @@ app = typer.Typer(
     "for heat-treatment planning. " + CAUTION,
 )
 
-for _command in (diagram, check, hold, cct, cool, plan, fit, spread, compare):
+for _command in (diagram, check, hold, cct, cool, plan, temper, fit, spread, compare):
     app.command()(_command)
 
 

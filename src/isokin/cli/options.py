@@ -63,6 +63,28 @@ def whole_number(text: str) -> int:
     return value
 
 
+def hardness_target(hv_text, hrc_text):
+    """Target hardness, HV: one value or the two ends of a range, from --target-hv or --target-hrc."""
+    if hv_text is not None and hrc_text is not None:
+        raise InputError(None, "--target-hv", "give --target-hv or --target-hrc, not both")
+    text, option = (hv_text, "--target-hv") if hv_text is not None else (hrc_text, "--target-hrc")
+    if text is None:
+        return None
+    from ..io.schema import parse_number
+
+    values = [parse_number(part) for part in text.split(":")]
+    if not 1 <= len(values) <= 2 or None in values:
+        raise InputError(None, option, f"{text!r} is not a hardness or a range LOW:HIGH, e.g. 32 or 30:34")
+    if option == "--target-hrc":
+        if not all(20.0 <= v <= 68.0 for v in values):
+            raise InputError(None, option, "Rockwell C hardness must lie from 20 to 68; give softer targets in HV")
+        from ..relations.hardness import hv_from_hrc_astm_e140
+
+        values = [float(hv_from_hrc_astm_e140(v)) for v in values]
+    return sorted(values)
+
+
+
 class Inline:
     """The steel options of a command line: --composition and what goes with it, --kinetics."""
 

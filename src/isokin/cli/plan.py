@@ -12,7 +12,7 @@ import typer
 from ..errors import InputError
 from ..readout import format_duration
 from .options import (AlloyArg, FigureFormat, FormatOpt, Inline, OutOpt, OverwriteOpt, RangeOpt, SamplesOpt, SeedOpt,
-                      Units, UnitsOpt, decimal_number, duration, in_units, steel_options)
+                      Units, UnitsOpt, decimal_number, duration, hardness_target, in_units, steel_options)
 from .runner import Drawing, Outcome, load, run
 from .spread import heats
 from .status import status
@@ -22,18 +22,21 @@ class Route(str, Enum):
     austemper = "austemper"
     interrupted_quench = "interrupted-quench"
     anneal = "anneal"
+    quench_and_temper = "quench-and-temper"
 
 
 #: The library's keys of a plan as this command's options name them.
 _PLAN_KEYS = {"max_hold_s": "--max-hold", "margin_K": "--margin-k", "safety": "--safety", "budget_s": "--budget",
-              "route": "--route"}
+              "route": "--route", "temper_s": "--temper-time", "quench_rate_K_s": "--quench-rate",
+              "target_hv": "--target-hv", "curve": "--curve"}
 
 
 @steel_options
 def plan(
     alloy_file: AlloyArg = None,
     inline: Inline = None,
-    route: Annotated[Optional[Route], typer.Option("--route", help="austemper, interrupted-quench or anneal.")] = None,
+    route: Annotated[Optional[Route], typer.Option("--route", help="austemper, interrupted-quench, anneal or "
+                                                   "quench-and-temper.")] = None,
     max_hold: Annotated[Optional[str], typer.Option("--max-hold", metavar="DURATION",
                         help="Austemper: the longest hold the line allows (default 4h).")] = None,
     budget: Annotated[Optional[str], typer.Option("--budget", metavar="DURATION",
@@ -42,8 +45,20 @@ def plan(
                         help="Keep hold temperatures this far above Ms, K (austemper 20, interrupted quench 10).")] = None,
     safety: Annotated[Optional[float], typer.Option("--safety", parser=decimal_number, metavar="NUMBER",
                       help="Safety factor on the model's times (austemper 1.5, interrupted quench 2, anneal 1.5).")] = None,
-    target_hv: Annotated[Optional[float], typer.Option("--target-hv", parser=decimal_number, metavar="NUMBER",
-                         help="Austemper: recommend the temperature closest to this hardness, HV.")] = None,
+    target_hv: Annotated[Optional[str], typer.Option("--target-hv", metavar="HV[:HV]",
+                         help="Austemper: recommend the temperature closest to this hardness, HV. Quench and temper: "
+                              "the hardness after tempering, a value or a range such as 300:340.")] = None,
+    target_hrc: Annotated[Optional[str], typer.Option("--target-hrc", metavar="HRC[:HRC]",
+                          help="As --target-hv, in Rockwell C (e.g. 30:34).")] = None,
+    curve: Annotated[Optional[Path], typer.Option("--curve", metavar="FILE", show_default=False,
+                     help="Quench and temper: the grade's measured tempering curve (CSV, as for isokin temper).")] = None,
+    temper_time: Annotated[Optional[str], typer.Option("--temper-time", metavar="DURATION",
+                           help="Quench and temper: the tempering time (default 2h).")] = None,
+    quench_rate: Annotated[Optional[float], typer.Option("--quench-rate", parser=decimal_number, metavar="K_PER_S",
+                           help="Quench and temper: the quench as a constant rate, K/s, to check it hardens the "
+                                "part (without it the part is taken as fully hardened).")] = None,
+    allow_embrittlement: Annotated[bool, typer.Option("--allow-embrittlement", help="Quench and temper: let tempers "
+                                   "in the embrittlement range (250-400 °C) count.")] = False,
     thickness_mm: Annotated[Optional[float], typer.Option("--thickness-mm", parser=decimal_number, metavar="NUMBER",
                             help="Interrupted quench: section thickness, mm, for the equalizing time.")] = None,
     htc: Annotated[Optional[float], typer.Option("--htc", parser=decimal_number, metavar="W_PER_M2K",
@@ -72,17 +87,22 @@ def plan(
         from ..io.export import plan_summary, write_json, write_plan_csv, write_plan_xlsx
 
         if route is None:
-            raise InputError(None, "--route", "choose austemper, interrupted-quench or anneal")
+            raise InputError(None, "--route", "choose austemper, interrupted-quench, anneal or quench-and-temper")
+        target = hardness_target(target_hv, target_hrc)
         options = {}
         if safety is not None:
             options["safety"] = safety
         if worst_case:
             options["worst_case"] = heats(alloy, range_text, samples, seed)
         status(f"planning the {route.value} window" + (" over the heats of the range" if worst_case else ""))
+        if route == Route.quench_and_temper:
+            return _quench_and_temper(alloy, stem, target, options)
         if route == Route.austemper:
+            if target is not None and len(target) != 1:
+                raise InputError(None, "--target-hv", "austempering aims at one hardness, e.g. --target-hv 480")
             hold_limit = _duration_option(max_hold, "--max-hold")
             options.update({k: v for k, v in (("max_hold_s", hold_limit), ("margin_K", margin_k),
-                                              ("target_hv", target_hv)) if v is not None})
+                                              ("target_hv", None if target is None else target[0])) if v is not None})
             result = planning.austemper(alloy, **options)
         elif route == Route.interrupted_quench:
             options.update({k: v for k, v in (("margin_K", margin_k),
@@ -112,6 +132,49 @@ def plan(
             files[out / f"{stem}-plan.xlsx"] = lambda p: write_plan_xlsx(result, curves, p)
         return Outcome(lambda: _print_plan(result, units), result.warnings, files, result.cautions)
 
+    def _quench_and_temper(alloy, stem, target, options):
+        from ..compute import plan as planning
+        from ..compute.temper import EMBRITTLEMENT_RANGE_C, tempering_lines
+        from ..constants import kelvin_to_celsius
+        from ..io.export import plan_summary, write_json, write_plan_csv, write_plan_xlsx
+        from ..io.tables import read_tempering_curve
+        from ..readout import format_duration as text
+
+        if options.pop("worst_case", None) is not None or "safety" in options:
+            raise InputError(None, "--worst-case" if worst_case else "--safety", "goes with the hold routes, not "
+                             "quench-and-temper")
+        if curve is None:
+            raise InputError(None, "--curve", "quench-and-temper reads the hardness after tempering from the grade's "
+                             "measured tempering curve: give --curve FILE (CSV with temperature_C and hardness_HV or "
+                             "hardness_HRC)")
+        if target is None:
+            raise InputError(None, "--target-hv", "give the hardness after tempering, e.g. --target-hrc 30:34")
+        measured = read_tempering_curve(curve, None, "--curve")
+        temper_s = _duration_option(temper_time, "--temper-time")
+        result = planning.quench_and_temper(alloy, measured, target, quench_rate_K_s=quench_rate,
+                                            avoid_embrittlement=not allow_embrittlement,
+                                            **({} if temper_s is None else {"temper_s": temper_s}))
+        T_line, hv_line = tempering_lines(alloy, measured, [result.options["temper_s"]])
+
+        def draw():
+            from ..plot.temper import tempering_figure
+
+            rec = result.recommendation
+            return tempering_figure(
+                [(f"{text(result.options['temper_s'])} temper", T_line, hv_line[0])],
+                (kelvin_to_celsius(measured.temperature_K), measured.hardness_HV, f"measured tempers ({measured.source})"),
+                f"Quench and temper plan: {alloy.name}", units.value, target_HV=tuple(result.options["target_HV"]),
+                marks=None if rec is None else ("recommended", [(rec["temperature_C"], rec["hardness_HV"])]),
+                embrittlement_C=EMBRITTLEMENT_RANGE_C, footer=" ".join(result.cautions[:1]))
+
+        name = f"{stem}-plan"
+        files = {out / f"{name}.json": lambda p: write_json(plan_summary(result), p),
+                 out / f"{name}.csv": lambda p: write_plan_csv(result, p),
+                 out / f"{name}.{fmt.value}": Drawing(draw)}
+        if xlsx:
+            files[out / f"{name}.xlsx"] = lambda p: write_plan_xlsx(result, None, p)
+        return Outcome(lambda: _print_plan(result, units), result.warnings, files, result.cautions)
+
     run(lambda: load(alloy_file, inline), solve, overwrite=overwrite, keys=_PLAN_KEYS)
 
 
@@ -121,21 +184,31 @@ def _duration_option(text: Optional[str], option: str) -> Optional[float]:
 
 #: Plan columns as printed: heading, and whether the value is a duration.
 _PLAN_COLUMNS = {"required_rate_K_s": ("quench K/s", False), "hardness_HV": ("HV", False),
+                 "embrittlement_range": ("embrittles", None),
                  "start_any_s": ("first 1 % at", True), "equalize_s": ("equalizes in", True)}
 
 
 def _print_plan(result, units):
     rows = result.rows
     typer.echo(f"{result.alloy}: {result.route} plan")
+    options = result.options
+    if "as_quenched_martensite" in options:
+        hv = options.get("as_quenched_HV")
+        typer.echo(f"  quench at {options['quench_rate_K_s']:g} K/s: {options['as_quenched_martensite'] * 100:.0f} % "
+                   "martensite" + (f", {hv:.0f} HV as quenched" if hv is not None else ""))
+    at, time = ("temper at", "temper") if result.route == "quench-and-temper" else ("hold at", "hold time")
     extra = [c for c in _PLAN_COLUMNS if c in rows]
-    typer.echo(f"  {'hold at':>10}  {'ok':>3}  {'hold time':>10}  " + "  ".join(f"{_PLAN_COLUMNS[c][0]:>12}" for c in extra)
+    typer.echo(f"  {at:>10}  {'ok':>3}  {time:>10}  " + "  ".join(f"{_PLAN_COLUMNS[c][0]:>12}" for c in extra)
                + "  governed by")
     feasible = [k for k, ok in enumerate(rows["feasible"]) if ok] or list(range(len(rows["feasible"])))
     for k in feasible[:: max(1, len(feasible) // 12)]:
         cells = []
         for c in extra:
             v = float(rows[c][k])
-            text = (format_duration(v) if _PLAN_COLUMNS[c][1] else f"{v:.3g}") if math.isfinite(v) else "-"
+            if _PLAN_COLUMNS[c][1] is None:
+                text = "yes" if v else ""
+            else:
+                text = (format_duration(v) if _PLAN_COLUMNS[c][1] else f"{v:.3g}") if math.isfinite(v) else "-"
             cells.append(f"{text:>12}")
         hold_s = float(rows["hold_time_s"][k])
         typer.echo(f"  {in_units(float(rows['temperature_C'][k]), units):>10}  {'yes' if rows['feasible'][k] else 'no':>3}"
@@ -145,7 +218,7 @@ def _print_plan(result, units):
         typer.echo(f"  window: {in_units(result.window_C[0], units)} to {in_units(result.window_C[1], units)}")
     if result.recommendation is not None:
         r = result.recommendation
-        typer.echo(f"  recommended: {in_units(r['temperature_C'], units)}, hold {format_duration(r['hold_time_s'])} "
-                   f"({r['reason']})")
+        typer.echo(f"  recommended: {in_units(r['temperature_C'], units)}, {time.split()[0]} "
+                   f"{format_duration(r['hold_time_s'])} ({r['reason']})")
     if result.no_window:
         typer.echo(f"  {result.no_window}")

@@ -1,4 +1,5 @@
-"""Heat-treat planning: hold windows for austempering, interrupted quench and isothermal annealing.
+"""Heat-treat planning: hold windows for austempering, interrupted quench, isothermal annealing,
+and the tempering window of a quench and temper.
 
 Each route scans hold temperatures, tests each against its conditions with a margin
 function (positive where the condition holds, in ln s or in K), refines the edges of the
@@ -11,13 +12,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..constants import kelvin_to_celsius
+from ..constants import celsius_to_kelvin, kelvin_to_celsius
 from ..errors import InputError
 from ..readout import format_duration
 from ..relations.hardness import hardness_of_mixture
 from ..results import PlanResult
 from .cooling import constant_rate, cool, default_start_C, lumped_time_constant
 from .decomposition import Decomposition, ProductCurve, hold
+from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
 
 #: Above about this the bainite of an austempering hold is upper bainite, coarser and less
 #: tough; austempering for toughness is done below it (common practice, from memory).
@@ -44,7 +46,16 @@ ROUTE_CAUTIONS = {
     "interrupted-quench": ("Martempering uses molten salt or hot oil: fire and splash hazards, and oil above its flash "
                            "point is a fire risk; follow the plant's safety rules."),
     "anneal": "Furnace atmospheres and handling of hot loads follow the plant's safety rules.",
+    "quench-and-temper": ("Quench tanks (water, polymer, oil) and tempering furnaces are hazards: oil above its flash "
+                          "point is a fire risk and hot loads burn; follow the plant's safety rules."),
 }
+#: Quench and temper: tempering temperatures scanned, °C, and the default tempering time.
+TEMPER_SCAN_C = (150.0, 700.0)
+DEFAULT_TEMPER_S = 2 * 3600.0
+#: Below this martensite share the part is not fully hardened and a tempering curve of fully
+#: hardened specimens overstates its hardness (common practice, from memory: 90 % martensite
+#: is the usual through-hardening criterion for quenched and tempered parts).
+FULLY_HARDENED_MARTENSITE = 0.9
 COMMON_CAUTION = ("The specifications that govern the parts and local codes come first; confirm the plan with a trial "
                   "heat treatment and a qualified metallurgist's sign-off before production.")
 
@@ -386,3 +397,109 @@ def _result(route, alloy, rows, ok, edges, choice, reason, nearest, options, war
                       cautions=(ROUTE_CAUTIONS[route], COMMON_CAUTION),
                       warnings=tuple(alloy.warnings) + tuple(warnings), inputs=alloy.inputs,
                       provenance=dict(alloy.provenance))
+
+
+def quench_and_temper(alloy, curve, target_hv, temper_s=DEFAULT_TEMPER_S, quench_rate_K_s=None,
+                      austenitizing_C=None, avoid_embrittlement=True):
+    """Quench and temper: the window of tempering temperatures whose hardness, read from the
+    grade's measured tempering curve by the Hollomon-Jaffe parameter, lies in the target
+    range after a temper of ``temper_s``; tempers in the tempered-martensite-embrittlement
+    range (250-400 °C) are left out unless ``avoid_embrittlement`` is False.
+
+    Parameters
+    ----------
+    curve : TemperingCurve
+        The grade's measured tempering curve (:func:`isokin.read_tempering_curve`).
+    target_hv : float or (float, float)
+        Hardness after tempering, HV: a value or the range the drawing gives.
+    quench_rate_K_s : float, optional
+        The quench, as a constant rate from the austenitizing temperature: the plan reports the
+        as-quenched phases and hardness and warns where under 90 % martensite forms (the curve
+        is for fully hardened specimens). Without it the part is taken as fully hardened.
+
+    Returns
+    -------
+    PlanResult
+        Each candidate tempering temperature with the tempering time (``hold_time_s``), the
+        hardness, whether it lies in the embrittlement range; the window; the recommendation,
+        the temperature giving the middle of the target range (nearest feasible to it).
+
+    Examples
+    --------
+    >>> import isokin
+    >>> steel = isokin.steel({"C": 0.4, "Mn": 0.8, "Cr": 1.0, "Mo": 0.2}, 7.0)
+    >>> curve = isokin.tempering_curve([400, 500, 600, 700], [480, 400, 320, 250])
+    >>> plan = quench_and_temper(steel, curve, (320, 360), temper_s=3600.0)
+    >>> round(plan.recommendation["temperature_C"], 1)
+    575.0
+    """
+    _steel_only(alloy, "quench-and-temper")
+    low, high = _target_range(target_hv)
+    _check("temper_s", temper_s)
+    T_C = np.arange(TEMPER_SCAN_C[0], TEMPER_SCAN_C[1] + 0.5 * SCAN_STEP_K, SCAN_STEP_K)
+    tempered = temper(alloy, T_C, temper_s, curve)
+    hv = tempered.hardness_HV
+    embrittle = tempered.embrittlement
+    in_range = (hv >= low) & (hv <= high)
+    ok = in_range & (~embrittle if avoid_embrittlement else True)
+    ends = temper_for_hardness(alloy, [low, high], curve, time_s=temper_s).temperatures_C
+    warnings = []
+    covered = T_C[np.isfinite(hv)]
+    if covered.size < T_C.size:
+        span = f"{covered.min():.0f} to {covered.max():.0f} °C" if covered.size else "none of them"
+        warnings.append(f"the tempering curve covers {span} of the {TEMPER_SCAN_C[0]:g}-{TEMPER_SCAN_C[1]:g} °C "
+                        f"scanned for a {_duration(temper_s)} temper; the rest are not candidates")
+    options = {"target_HV": [low, high], "temper_s": temper_s, "avoid_embrittlement": avoid_embrittlement,
+               "tempering_curve": curve.source, "hollomon_jaffe_constant": tempered.constant}
+    extra = {"hardness_HV": hv, "embrittlement_range": embrittle}
+    if quench_rate_K_s is not None:
+        start_C = _start_C(alloy, austenitizing_C)
+        quenched = cool(alloy, constant_rate(quench_rate_K_s, start_C))
+        martensite = float(quenched.final.get(alloy.martensite.name, np.array([0.0]))[0])
+        options.update({"quench_rate_K_s": float(quench_rate_K_s), "austenitizing_C": start_C,
+                        "as_quenched_martensite": martensite,
+                        "as_quenched_HV": float(quenched.hardness_HV[0]) if quenched.hardness_HV is not None else None})
+        if martensite < FULLY_HARDENED_MARTENSITE:
+            warnings.append(f"the quench at {quench_rate_K_s:g} K/s leaves {martensite * 100:.0f} % martensite (under "
+                            f"{FULLY_HARDENED_MARTENSITE * 100:.0f} %): the tempering curve is for fully hardened "
+                            "specimens, so the part will temper softer than planned; quench faster or choose a more "
+                            "hardenable grade")
+    governing = np.where(embrittle & in_range & avoid_embrittlement,
+                         "in the tempered-martensite embrittlement range (250-400 °C)",
+                         "hardness after tempering vs the target")
+    rows = _rows(alloy, celsius_to_kelvin(T_C), np.full(T_C.shape, float(temper_s)), ok, governing, extra)
+    edges = [celsius_to_kelvin(e) for e in ends if np.isfinite(e)]
+    choice = reason = None
+    if ok.any():
+        middle = 0.5 * (low + high)
+        idx = np.nonzero(ok)[0]
+        choice = int(idx[int(np.nanargmin(np.abs(hv[idx] - middle)))])
+        reason = f"hardness nearest the middle of {low:.0f}-{high:.0f} HV"
+    nearest = None
+    if not ok.any():
+        reachable = hv[np.isfinite(hv)]
+        if in_range.any():
+            nearest = ("the target is reached only by tempering in the embrittlement range (250-400 °C); "
+                       "accept it where toughness allows (plan with embrittlement allowed) or change the target")
+        elif reachable.size:
+            nearest = (f"no temper of {_duration(temper_s)} reaches {low:.0f}-{high:.0f} HV: the curve gives "
+                       f"{reachable.min():.0f} to {reachable.max():.0f} HV at {TEMPER_SCAN_C[0]:g}-"
+                       f"{TEMPER_SCAN_C[1]:g} °C; change the target, the tempering time or the grade")
+        else:
+            nearest = "the tempering curve does not cover 150-700 °C for this tempering time"
+    result = _result("quench-and-temper", alloy, rows, ok, edges if 0 < ok.sum() < ok.size else [], choice, reason,
+                     nearest, options, warnings)
+    if choice is not None:  # the exact temperature of the middle hardness where it is feasible, not the scan point
+        exact = float(temper_for_hardness(alloy, 0.5 * (low + high), curve, time_s=temper_s).temperatures_C[0])
+        lo_C, hi_C = EMBRITTLEMENT_RANGE_C
+        if np.isfinite(exact) and not (avoid_embrittlement and lo_C <= exact <= hi_C):
+            result.recommendation.update(temperature_C=exact, hardness_HV=0.5 * (low + high))
+    return result
+
+
+def _target_range(target_hv):
+    values = np.atleast_1d(np.asarray(target_hv, dtype=float))
+    if values.size not in (1, 2) or not np.all(np.isfinite(values)) or np.any(values <= 0):
+        raise InputError(None, "target_hv", f"give a target hardness or range in HV, e.g. 330 or (320, 360), got "
+                         f"{target_hv!r}")
+    return float(values.min()), float(values.max())

@@ -346,7 +346,8 @@ def write_plan_csv(result, target: Path):
 
 
 def write_plan_xlsx(result, curves, target: Path):
-    """A spreadsheet: the plan's candidates, a summary sheet, and the curves (openpyxl through pandas)."""
+    """A spreadsheet: the plan's candidates, a summary sheet, and the curves where given (openpyxl
+    through pandas)."""
     import pandas as pd  # only a spreadsheet needs it: the other exports start without it
 
     summary = plan_summary(result)
@@ -358,7 +359,8 @@ def write_plan_xlsx(result, curves, target: Path):
     with pd.ExcelWriter(target, engine="openpyxl") as book:
         pd.DataFrame(head, columns=["item", "value"]).to_excel(book, sheet_name="summary", index=False)
         result.to_frame().to_excel(book, sheet_name="plan", index=False)
-        curves.to_frame().to_excel(book, sheet_name="curves", index=False)
+        if curves is not None:
+            curves.to_frame().to_excel(book, sheet_name="curves", index=False)
 
 
 def calibrated_tables(result, data_name: str, digest: str, date: str) -> dict:
@@ -484,3 +486,44 @@ def compare_summary(results) -> dict:
                     "inputs": r.inputs})
     return {"isokin_version": __version__, "alloys": out, "start_meaning": "1 % of what can transform (total)",
             "note": CAUTION_SHORT}
+
+
+def temper_summary(result) -> dict:
+    """Each temper with its parameter, equivalent 1 h temperature and hardness (HV, HRC), the
+    curve it was read from, the embrittlement flags and the record."""
+    tempers = [{"temperature_C": _finite_or_none(T), "time_s": _finite_or_none(t),
+                "hollomon_jaffe_parameter": _finite_or_none(P), "equivalent_1h_temperature_C": _finite_or_none(T1),
+                "hardness_HV": _finite_or_none(hv, 4), "hardness_HRC": _finite_or_none(hrc_from_hv_astm_e140(hv), 3),
+                "embrittlement_range": bool(flag),
+                **({} if result.target_HV is None else {"target_HV": _finite_or_none(result.target_HV[k], 4)})}
+               for k, (T, t, P, T1, hv, flag) in enumerate(zip(
+                   result.temperatures_C, result.times_s, result.parameter, result.equivalent_1h_C,
+                   result.hardness_HV, result.embrittlement))]
+    curve = result.curve
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy,
+        "method": ("Hollomon-Jaffe (1945) parameter P = T_K (C + log10 t_h); hardness read from the measured "
+                   "tempering curve at equal P (linear in P, not extrapolated)"),
+        "hollomon_jaffe_constant": result.constant,
+        "tempers": tempers,
+        "tempering_curve": {"source": curve.source, "temperature_C": [round(float(v), 4) for v in
+                                                                      kelvin_to_celsius(curve.temperature_K)],
+                            "hardness_HV": [round(float(v), 4) for v in curve.hardness_HV],
+                            "time_s": [float(v) for v in curve.time_s]},
+        "warnings": list(result.warnings),
+        "inputs": result.inputs,
+        "note": CAUTION_SHORT,
+    }
+
+
+def write_temper_json(result, target: Path):
+    write_json(temper_summary(result), target)
+
+
+def write_temper_csv(result, target: Path):
+    write_columns_csv({"temperature_C": result.temperatures_C, "time_s": result.times_s,
+                       "hollomon_jaffe_parameter": result.parameter,
+                       "equivalent_1h_temperature_C": result.equivalent_1h_C, "hardness_HV": result.hardness_HV,
+                       "hardness_HRC": hrc_from_hv_astm_e140(result.hardness_HV),
+                       "embrittlement_range": result.embrittlement.astype(int)}, target)

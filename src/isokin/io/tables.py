@@ -21,9 +21,10 @@ TEMPERATURE_RANGE_C = (-273.15, 5000.0)
 DGM_LIMIT_J_MOL = 1.0e6
 
 
-def _numeric_rows(source, key, path, what, columns):
+def _numeric_rows(source, key, path, what, columns, optional=()):
     """(line, [numbers]) of a CSV's named columns: a header naming them, blank lines and lines
-    starting with # skipped; a cell that is not a plain number is an error naming its line."""
+    starting with # skipped; a cell that is not a plain number is an error naming its line.
+    ``optional`` columns follow the required ones, None where the header lacks them."""
     text = read_input_file(source, key, path, what)
     try:
         rows = [r for r in csv.reader(io.StringIO(text, newline="")) if r and not r[0].lstrip().startswith("#")]
@@ -34,15 +35,17 @@ def _numeric_rows(source, key, path, what, columns):
     if missing:
         raise InputError(source, key, f"{what} {path} needs a header with {', '.join(columns)}; missing "
                          f"{', '.join(missing)}")
-    index = [header.index(c) for c in columns]
+    present = [c for c in optional if c in header]
+    index = [header.index(c) for c in (*columns, *present)]
     for line, row in enumerate(rows[1:], start=2):
         if not any(cell.strip() for cell in row):
             continue
         numbers = [parse_number(row[j]) if j < len(row) else None for j in index]
         if None in numbers:
-            raise InputError(source, key, f"{what} {path}, line {line}: {', '.join(columns)} must be plain finite "
-                             "decimal numbers")
-        yield line, numbers
+            raise InputError(source, key, f"{what} {path}, line {line}: {', '.join((*columns, *present))} must be "
+                             "plain finite decimal numbers")
+        found = dict(zip(present, numbers[len(columns):]))
+        yield line, numbers[:len(columns)] + [found.get(c) for c in optional]
 
 
 def read_driving_force_table(source, where, path: Path) -> DrivingForceTable:
@@ -89,3 +92,33 @@ def read_cooling_log(path: Path, source=None, key="log"):
     if np.unique(table[:, 0]).size < 2:
         raise InputError(source, key, f"cooling log {path} needs at least two rows with distinct times")
     return measured(table[:, 0], table[:, 1], label=Path(path).name)
+
+
+TEMPERING_COLUMNS = ("temperature_C",)
+TEMPERING_OPTIONAL = ("hardness_HV", "hardness_HRC", "time_s")
+
+
+def read_tempering_curve(path: Path, source=None, key="curve"):
+    """A measured tempering curve from a CSV: temperature_C and hardness_HV or hardness_HRC
+    (Rockwell C converted by ASTM E140), and time_s where the tempers were not 1 h each.
+    Blank lines and lines starting with # are skipped."""
+    from ..compute.temper import DEFAULT_CURVE_TIME_S, tempering_curve
+    from ..relations.hardness import hv_from_hrc_astm_e140
+
+    rows = [numbers for _, numbers in _numeric_rows(source, key, path, "tempering curve", TEMPERING_COLUMNS,
+                                                     TEMPERING_OPTIONAL)]
+    table = np.array(rows, dtype=float) if rows else np.zeros((0, 4))
+    hv, hrc, time_s = table[:, 1], table[:, 2], table[:, 3]
+    if np.isnan(hv).all() == np.isnan(hrc).all():
+        raise InputError(source, key, f"tempering curve {path} needs one hardness column: hardness_HV or hardness_HRC")
+    if np.isnan(hv).all():
+        if np.any((hrc < 20.0) | (hrc > 68.0)):
+            raise InputError(source, key, f"tempering curve {path}: hardness_HRC must lie from 20 to 68 (the "
+                             "Rockwell C scale); give softer tempers in hardness_HV")
+        hv = hv_from_hrc_astm_e140(hrc)
+    times = DEFAULT_CURVE_TIME_S if np.isnan(time_s).all() else time_s
+    try:
+        return tempering_curve(table[:, 0], hv, times, source=Path(path).name)
+    except InputError as exc:
+        raise InputError(source, key, f"tempering curve {path}: {exc.key or ''} {exc.problem}".replace("  ", " ")) \
+            from None
