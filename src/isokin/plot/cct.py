@@ -14,6 +14,7 @@ from matplotlib.lines import Line2D
 from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
 from ..readout import CAUTION_SHORT
 from ..results import OVERALL, CCTResult, CoolingResult
+from .labels import declutter, movable
 from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
 
 PATH_COLOUR = "#6a3d9a"
@@ -66,8 +67,8 @@ def plot_cct(result: CCTResult, ax=None, units="C"):
     lines = {name: float(to_units(kelvin_to_celsius(t), units)) for name, t in result.critical_K.items()}
     for name, y in lines.items():
         ax.axhline(y, **LINE_STYLE, zorder=1)
-        ax.text(0.995, y, f"{literal(name)} {y:.0f} °{units}", transform=ax.get_yaxis_transform(), va="bottom",
-                ha="right", fontsize=7.5, color="#333333")
+        movable(ax.text(0.995, y, f"{literal(name)} {y:.0f} °{units}", transform=ax.get_yaxis_transform(),
+                        va="bottom", ha="right", fontsize=7.5, color="#333333"))
     low = float(np.nanmin(T_plot))
     top = max(float(np.nanmax(T_plot)), *lines.values()) if lines else float(np.nanmax(T_plot))
     ax.set_ylim(low - 0.10 * (top - low), top + 0.05 * (top - low))
@@ -113,8 +114,8 @@ def plot_cooling(result: CoolingResult, ttt=None, cct=None, ax=None, units="C"):
             if np.isfinite(t) and t > 0:
                 y = float(to_units(kelvin_to_celsius(T), units))
                 ax.plot(t, y, marker="o", color=PATH_COLOUR, markerfacecolor="white", zorder=7)
-                ax.annotate(f"{literal(name)} starts", (t, y), xytext=(6, 4), textcoords="offset points",
-                            fontsize=7, color=PATH_COLOUR)
+                movable(ax.annotate(f"{literal(name)} starts", (t, y), xytext=(6, 4), textcoords="offset points",
+                                    fontsize=7, color=PATH_COLOUR))
     ax.set_title(f"Cooling path: {literal(result.alloy)}", fontsize=11, loc="left")
     ax.set_xlabel("time, s (log scale); the isothermal curves as hold times")
     return ax
@@ -129,4 +130,5 @@ def report_figure(draw, result, footer, **kwargs):
              ha="left", va="bottom")
     bottom = 0.025 * (text.count("\n") + 2) + 0.015
     fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
+    declutter(fig)
     return fig

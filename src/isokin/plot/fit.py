@@ -7,6 +7,7 @@ import numpy as np
 
 from ..constants import kelvin_to_celsius
 from ..readout import CAUTION_SHORT
+from .labels import declutter
 from .ttt import OVERALL_COLOUR, literal, log_time_axis, to_units
 
 
@@ -44,4 +45,5 @@ def fit_figure(result, curves, units="C"):
     fig.text(0.01, 0.003, f"band: 95 % of 100 parameter sets from the fit's covariance. {CAUTION_SHORT}",
              fontsize=6.8, color="#444444", ha="left", va="bottom")
     fig.get_layout_engine().set(rect=(0, 0.04, 1, 0.955))
+    declutter(fig)
     return fig

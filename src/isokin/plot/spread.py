@@ -6,6 +6,7 @@ import matplotlib.pyplot as plt
 import numpy as np
 
 from ..constants import kelvin_to_celsius
+from .labels import movable
 from .ttt import OVERALL_COLOUR, PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
 
 
@@ -25,8 +26,8 @@ def plot_spread(result, ax=None, units="C"):
     ax.plot(earliest, y, color="#c0392b", linewidth=2.6, zorder=6, label="earliest start over the range")
     lo, hi = (float(to_units(kelvin_to_celsius(t), units)) for t in result.ms_range_K)
     ax.axhspan(lo, hi, color="#999999", alpha=0.2, zorder=0, linewidth=0)
-    ax.text(0.005, hi, f" Ms {lo:.0f}-{hi:.0f} °{units} over the range", transform=ax.get_yaxis_transform(),
-            va="bottom", ha="left", fontsize=7.5, color="#444444")
+    movable(ax.text(0.005, hi, f" Ms {lo:.0f}-{hi:.0f} °{units} over the range", transform=ax.get_yaxis_transform(),
+                    va="bottom", ha="left", fontsize=7.5, color="#444444"))
     ax.set_title(f"Spread over the composition range ({result.samples} heats): {literal(result.alloy)}",
                  fontsize=10.5, loc="left")
     handles, labels = ax.get_legend_handles_labels()

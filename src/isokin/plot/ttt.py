@@ -18,6 +18,7 @@ from matplotlib.ticker import FuncFormatter
 from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
 from ..readout import CAUTION_SHORT, format_duration
 from ..results import PRACTICAL_HORIZON_S, TTTResult
+from .labels import declutter, movable
 
 #: Dark, well-separated hues whose grey levels also differ.
 PRODUCT_COLOURS = ("#17324d", "#a8431a", "#2e6b3c", "#5b3a7a", "#7a6a12", "#0f6b73", "#7a2e4d", "#4d4d4d")
@@ -123,8 +124,8 @@ def plot_ttt(result: TTTResult, ax=None, units="C"):
     top.tick_params(which="minor", top=False)
     for name, y in lines.items():
         ax.axhline(y, **LINE_STYLE, zorder=1)
-        ax.text(0.995, y, f"{literal(name)} {y:.0f} °{units}", transform=ax.get_yaxis_transform(), va="bottom",
-                ha="right", fontsize=7.5, color="#333333")
+        movable(ax.text(0.995, y, f"{literal(name)} {y:.0f} °{units}", transform=ax.get_yaxis_transform(),
+                        va="bottom", ha="right", fontsize=7.5, color="#333333"))
     ax.set_xlabel("hold time, s (log scale)")
     ax.set_ylabel(f"hold temperature, °{units}")
     ax.set_title(f"Isothermal transformation: {literal(result.alloy)}", fontsize=11, loc="left")
@@ -201,9 +202,9 @@ def _label_regions(ax, result: TTTResult, units, x_range):
     for text, T_K, t_s, align in region_labels(result):
         y = float(to_units(kelvin_to_celsius(T_K), units))
         if t_s is None:
-            ax.text(0.5, y, literal(text), transform=ax.get_yaxis_transform(), ha=align, **REGION_STYLE)
+            movable(ax.text(0.5, y, literal(text), transform=ax.get_yaxis_transform(), ha=align, **REGION_STYLE))
         elif lo < t_s < hi:
-            ax.text(t_s, y, literal(text), ha=align, **REGION_STYLE)
+            movable(ax.text(t_s, y, literal(text), ha=align, **REGION_STYLE))
 
 
 def _fraction_styles(fractions):
@@ -228,6 +229,7 @@ def ttt_figure(result: TTTResult, footer_extra="", units="C", plan=None):
              ha="left", va="bottom")
     bottom = 0.025 * (footer.count("\n") + 2) + 0.015
     fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
+    declutter(fig)
     return fig
 
 
@@ -297,12 +299,12 @@ def _mark_noses(ax, result: TTTResult, x_label, line_C, units):
             ax.plot(t, T, marker=marker, color=colour, markersize=6.5,
                     markerfacecolor="white", markeredgewidth=1.4, zorder=5)
         _, T, t = min(noses, key=lambda n: n[2])
-        ax.annotate(
+        movable(ax.annotate(
             text, (t, T), xytext=(x_label, y), fontsize=7, color=colour, linespacing=1.15,
             ha="right", va="center", zorder=7,  # above every curve, so that the text stays legible
             bbox={"boxstyle": "square,pad=0.15", "facecolor": "white", "edgecolor": "none", "alpha": 0.85},
             arrowprops={"arrowstyle": "-", "color": colour, "linewidth": 0.6, "shrinkA": 0, "shrinkB": 4},
-        )
+        ))
 
 
 def plot_plan(plan, result: TTTResult, ax=None, units="C"):
@@ -311,13 +313,13 @@ def plot_plan(plan, result: TTTResult, ax=None, units="C"):
     if plan.window_C is not None:
         lo, hi = (float(to_units(t, units)) for t in plan.window_C)
         ax.axhspan(lo, hi, color="#9fd4a6", alpha=0.35, zorder=0, linewidth=0)
-        ax.text(0.99, lo, f"{plan.route} window {lo:.0f}-{hi:.0f} °{units} ", transform=ax.get_yaxis_transform(),
-                va="bottom", ha="right", fontsize=8, color="#1d5b28")
+        movable(ax.text(0.99, lo, f"{plan.route} window {lo:.0f}-{hi:.0f} °{units} ",
+                        transform=ax.get_yaxis_transform(), va="bottom", ha="right", fontsize=8, color="#1d5b28"))
     if plan.recommendation is not None:
         y = float(to_units(plan.recommendation["temperature_C"], units))
         t = plan.recommendation["hold_time_s"]
         ax.plot(t, y, marker="P", markersize=11, color="#1d5b28", markeredgecolor="white", zorder=8)
-        ax.annotate(f"recommended {y:.0f} °{units}, hold {format_duration(t)}", (t, y), xytext=(8, -14),
-                    textcoords="offset points", fontsize=8, color="#1d5b28", zorder=8)
+        movable(ax.annotate(f"recommended {y:.0f} °{units}, hold {format_duration(t)}", (t, y), xytext=(8, -14),
+                            textcoords="offset points", fontsize=8, color="#1d5b28", zorder=8))
     ax.set_title(f"Plan ({plan.route}): {literal(result.alloy)}", fontsize=11, loc="left")
     return ax
