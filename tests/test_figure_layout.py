@@ -71,6 +71,8 @@ COMMANDS = {
     "diagram Al-Cu": ["diagram", "brackwater-ba42-precipitation.toml"],
     "diagram Cu droplet": ["diagram", "brackwater-cu-atomised-droplet.toml"],
     "cct 4140": ["cct", "aisi-4140-crmo.toml"],
+    "cct 1080": ["cct", "aisi-1080-eutectoid.toml"],
+    "cct Al-Cu": ["cct", "brackwater-ba42-precipitation.toml"],
     "cool 4140": ["cool", "aisi-4140-crmo.toml", "--rate", "5", "--rate", "50"],
     "cool log": ["cool", "brackwater-bw52crv.toml", "--log", "brackwater-bw52crv-oil-quench-log.csv"],
     "plan austemper": ["plan", "aisi-4140-crmo.toml", "--route", "austemper"],

@@ -66,9 +66,10 @@ def fit(
         text = calibrated_file(result, data_file.name, digest, date)
 
         def draw():
-            from ..plot.fit import fit_figure
+            from ..plot.fit import fit_figure, shown_fractions
 
-            return fit_figure(result, fitting.band(result), units=units.value)
+            fractions = shown_fractions(result.data.fraction)
+            return fit_figure(result, fitting.band(result, fractions=fractions), fractions, units=units.value)
 
         return Outcome(lambda: _print_fit(alloy, data, result, units), (), {
             out: lambda p: p.write_text(text, encoding="utf-8"),

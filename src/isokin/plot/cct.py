@@ -72,19 +72,21 @@ def plot_cct(result: CCTResult, ax=None, units="C"):
     low = float(np.nanmin(T_plot))
     top = max(float(np.nanmax(T_plot)), *lines.values()) if lines else float(np.nanmax(T_plot))
     ax.set_ylim(low - 0.10 * (top - low), top + 0.05 * (top - low))
-    if cooling.hardness_HV is not None:
-        for k, hv in enumerate(cooling.hardness_HV):
-            if k % 2 == 0 and np.isfinite(hv):
-                ax.text(cooling.time_s[k, -1], low - 0.02 * (top - low), f"{hv:.0f}", rotation=90, ha="center",
-                        va="top", fontsize=6.5, color="#333333")
-        ax.text(0.005, 0.012, "HV at the end of every other cooling curve", transform=ax.transAxes, fontsize=6.5,
-                color="#333333")
+    hardness = cooling.hardness_HV
+    for k, rate in enumerate(result.rates_K_s):
+        if k % 2 == (result.rates_K_s.size - 1) % 2:  # every other curve, the fastest always
+            text = (f"{hardness[k]:.0f} HV\n" if hardness is not None and np.isfinite(hardness[k]) else "") \
+                + f"{rate:g} K/s"
+            ax.text(cooling.time_s[k, -1], low - 0.012 * (top - low), text, ha="center", va="top", fontsize=6.5,
+                    color="#333333", linespacing=1.1)
+    handles.append(Line2D([], [], color="none", label=("hardness and rate" if hardness is not None else "rate")
+                          + " below every other curve"))
     ax.set_xlabel(f"time since {result.start_C:.0f} °C, s (log scale)" if units == "C"
                   else f"time since {celsius_to_fahrenheit(result.start_C):.0f} °F, s (log scale)")
     ax.set_ylabel(f"temperature, °{units}")
     ax.set_title(f"Continuous cooling: {literal(result.alloy)}", fontsize=11, loc="left")
     ax.grid(True, which="major", color="#e4e4e4", linewidth=0.6)
-    ax.legend(handles=handles, loc="lower left", bbox_to_anchor=(0.0, 0.05), fontsize=7.5, framealpha=0.92)
+    ax.legend(handles=handles, loc="lower left", bbox_to_anchor=(0.0, 0.11), fontsize=7.5, framealpha=0.92)
     return ax
 
 
@@ -117,7 +119,20 @@ def plot_cooling(result: CoolingResult, ttt=None, cct=None, ax=None, units="C"):
                 movable(ax.annotate(f"{literal(name)} starts", (t, y), xytext=(6, 4), textcoords="offset points",
                                     fontsize=7, color=PATH_COLOUR))
     ax.set_title(f"Cooling path: {literal(result.alloy)}", fontsize=11, loc="left")
-    ax.set_xlabel("time, s (log scale); the isothermal curves as hold times")
+    if ttt is None and cct is None:
+        log_time_axis(ax)
+        ax.set_xlabel("time, s (log scale)")
+    else:
+        ax.set_xlabel("time, s (log scale); the isothermal curves as hold times")
+    ax.set_ylabel(f"temperature, °{units}")
+    legend = ax.get_legend()
+    extra = [Line2D([], [], color=PATH_COLOUR, linewidth=2.2,
+                    label="cooling path" if len(result.labels) == 1 else f"cooling paths ({len(result.labels)})")]
+    if cct is not None:
+        extra.append(Line2D([], [], color="#333333", linewidth=1.0, linestyle=(0, (1, 1.5)),
+                            label="CCT start (1 %) at constant rates"))
+    ax.legend(handles=[*(legend.legend_handles if legend is not None else []), *extra], fontsize=7.5,
+              loc="best", framealpha=0.92, ncols=1 if legend is None or len(legend.legend_handles) < 7 else 2)
     return ax
 
 

@@ -8,21 +8,38 @@ import numpy as np
 from ..constants import kelvin_to_celsius
 from ..readout import CAUTION_SHORT
 from .labels import declutter
-from .ttt import OVERALL_COLOUR, literal, log_time_axis, to_units
+from .ttt import OVERALL_COLOUR, fraction_styles, literal, log_time_axis, to_units
 
 
-def fit_figure(result, curves, units="C"):
-    """``curves`` = (T_K, times, lo, hi) of :func:`isokin.compute.fit.band` at fractions 0.01, 0.5, 0.99."""
+#: Measured fractions are drawn as their own curves up to this many distinct values (start and
+#: finish times); fraction curves (many values) get the diagrams' 1, 50 and 99 %.
+MAX_MEASURED_FRACTIONS = 4
+
+
+def shown_fractions(measured):
+    """The fractions whose fitted curves the figure draws: the measured ones where there are
+    few (start and finish times), else 1, 50 and 99 % as on the diagrams.
+
+    >>> shown_fractions([0.05, 0.5, 0.05, 0.5])
+    (0.05, 0.5)
+    """
+    distinct = sorted({round(float(x), 6) for x in measured})
+    return tuple(distinct) if len(distinct) <= MAX_MEASURED_FRACTIONS else (0.01, 0.5, 0.99)
+
+
+def fit_figure(result, curves, fractions=(0.01, 0.5, 0.99), units="C"):
+    """``curves`` = (T_K, times, lo, hi) of :func:`isokin.compute.fit.band` at ``fractions``, drawn
+    in the diagrams' line patterns, with the measured points over them."""
     T, centre, lo, hi = curves
     def to(t_c):
         return to_units(t_c, units)
 
     fig, (ax, res) = plt.subplots(1, 2, figsize=(10.5, 5.8), layout="constrained", width_ratios=(3, 1.3))
     y = to(kelvin_to_celsius(T))
-    for k, (style, label) in enumerate(((":", "1 %"), ("-", "50 %"), ("--", "99 %"))):
+    for k, (x, style) in enumerate(zip(fractions, fraction_styles(fractions))):
         ok = np.isfinite(centre[k])
         ax.plot(np.where(ok, centre[k], np.nan), y, color=OVERALL_COLOUR, linestyle=style, linewidth=1.8,
-                label=f"fitted, {label}")
+                label=f"fitted, {x * 100:g} %")
         band = np.isfinite(lo[k]) & np.isfinite(hi[k])
         if band.any():
             ax.fill_betweenx(y, np.where(band, lo[k], np.nan), np.where(band, hi[k], np.nan), color="#7fa7c9",

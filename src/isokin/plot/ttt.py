@@ -84,7 +84,7 @@ def plot_ttt(result: TTTResult, ax=None, units="C"):
     if ax is None:
         _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
     t_c = to_units(result.temperatures_C, units)
-    styles = _fraction_styles(result.fractions)
+    styles = fraction_styles(result.fractions)
     shown_times, shown_products, shown_fractions = [], {}, {}
     for i, name in enumerate(result.products):
         colour = _colour(result, i)
@@ -207,7 +207,7 @@ def _label_regions(ax, result: TTTResult, units, x_range):
             movable(ax.text(t_s, y, literal(text), ha=align, **REGION_STYLE))
 
 
-def _fraction_styles(fractions):
+def fraction_styles(fractions):
     """A line pattern per fraction: the standard ones for 1, 50, 99 %, then one each for the rest."""
     extra = iter(OTHER_FRACTION_STYLES * 2)
     return [FRACTION_STYLES.get(round(float(x), 6)) or next(extra) for x in fractions]
