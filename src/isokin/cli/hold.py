@@ -24,7 +24,7 @@ def hold(
     time: Annotated[Optional[list[str]], typer.Option("--time", metavar="DURATION",
                     help="Hold time: 90s, 30min, 2h, 1.5d or seconds; repeatable.")] = None,
     times: Annotated[Optional[str], typer.Option("--times", metavar="START..END/N",
-                     help="A log-spaced grid of hold times, e.g. 10s..8h/12.")] = None,
+                     help="A log-spaced grid of 2 to 200 hold times up to 1e9 s, e.g. 10s..8h/12.")] = None,
     quench_to_c: Annotated[Optional[float], typer.Option("--quench-to-c", parser=decimal_number, metavar="NUMBER",
                                                          help="Quench after the hold to this, °C (default 20).")] = None,
     out: OutOpt = Path("isokin-out"),

@@ -72,7 +72,7 @@ class NucleationGrowthParameters:
             raise InputError(None, "equilibrium_K", f"driving_force '{self.driving_force}' needs equilibrium_K and "
                              "latent_heat_J_mol")
         for name, (low, high, low_open) in _PHYSICAL.items():
-            if getattr(self, name) is not None:
+            if getattr(self, name) is not None or name not in _OPTIONAL:
                 numbers(name, getattr(self, name), low, high, low_open=low_open)
 
 
@@ -87,6 +87,9 @@ _PHYSICAL = {
     "strain_energy_J_m3": (0.0, None, False), "wetting_angle_deg": (0.0, 180.0, True),
     "site_density_m3": (0.0, None, True), "avrami_exponent": (0.0, None, True), "incubation_time_s": (0.0, None, False),
 }
+
+#: Numeric fields that may be None (see the class notes; the driving force's form needs the first two).
+_OPTIONAL = ("equilibrium_K", "latent_heat_J_mol", "site_density_m3", "avrami_exponent")
 
 #: Fields that hold numbers (and may hold a batch of them).
 _NUMERIC = (
