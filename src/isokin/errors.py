@@ -119,11 +119,6 @@ def number(key, value, low=None, high=None, *, low_open=False, high_open=False, 
                          _what="one finite number"))
 
 
-def fractions(key, value, source=None):
-    """Transformed fractions: finite numbers strictly between 0 and 1 (0.05 for 5 %)."""
-    return numbers(key, value, 0.0, 1.0, low_open=True, high_open=True, source=source)
-
-
 def text(key, value, limit=NAME_LIMIT, source=None) -> str:
     """A name or a note: non-blank text of at most ``limit`` characters on one line.
 
