@@ -233,10 +233,10 @@ def _figure_warnings(caught):
     missing = []
     for w in caught:
         match = _MISSING_GLYPH.search(str(w.message))
-        if match:
-            missing += [chr(int(match.group(1)))] if chr(int(match.group(1))) not in missing else []
-        else:
+        if not match:
             warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+        elif chr(int(match.group(1))) not in missing:
+            missing.append(chr(int(match.group(1))))
     if missing:
         typer.echo(f"isokin: warning: the figure's font has no character for {' '.join(missing)}; the figure shows an "
                    "empty box in its place (the files keep the name as given)", err=True)

@@ -67,7 +67,7 @@ def _steel_only(alloy, route):
         raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
 
 
-def _checked(alloy, worst_case=None, safety=None, margin_K=None, limit_s=None, limit_key="max_hold_s", target_hv=None):
+def _checked(worst_case=None, safety=None, margin_K=None, limit_s=None, limit_key="max_hold_s", target_hv=None):
     """The plan's options through the shared checks (the ones given): safety from 1 to
     :data:`MAX_SAFETY`, a margin from 0 to :data:`MAX_MARGIN_K`, a time limit above 0 and at
     most the practical horizon; the worst case a batch of heats."""
@@ -201,7 +201,7 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
     """
     _steel_only(alloy, "austemper")
     safety = DEFAULT_SAFETY["austemper"] if safety is None else safety
-    _checked(alloy, worst_case, safety, margin_K, max_hold_s, target_hv=target_hv)
+    _checked(worst_case, safety, margin_K, max_hold_s, target_hv=target_hv)
     model = worst_case if worst_case is not None else alloy
     ms = float(np.max(model.critical_K["Ms"]))
     bs = float(np.min(model.critical_K["Bs"]))
@@ -279,7 +279,7 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
     """
     _steel_only(alloy, "interrupted-quench")
     safety = DEFAULT_SAFETY["interrupted-quench"] if safety is None else safety
-    _checked(alloy, worst_case, safety, margin_K)
+    _checked(worst_case, safety, margin_K)
     model = worst_case if worst_case is not None else alloy
     ms = float(np.max(model.critical_K["Ms"]))
     T = np.arange(ms + margin_K, ms + margin_K + span_K + 0.5 * SCAN_STEP_K, SCAN_STEP_K)
@@ -318,7 +318,7 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
     if check_alloy(alloy).batch_shape:
         raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
     safety = DEFAULT_SAFETY["anneal"] if safety is None else safety
-    _checked(alloy, worst_case, safety, limit_s=budget_s, limit_key="budget_s")
+    _checked(worst_case, safety, limit_s=budget_s, limit_key="budget_s")
     model = worst_case if worst_case is not None else alloy
     bs = float(np.max(model.critical_K.get("Bs", 0.0)))
     upper = min(float(np.min(p.upper_K)) for p in model.products if p.name != "bainite") if worst_case is not None \
