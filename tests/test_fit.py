@@ -98,8 +98,8 @@ def test_a_physical_alloy_is_fitted_in_its_own_parameters():
 
 
 @pytest.mark.parametrize("text, expected", [
-    ("temperature_C,time_s,fraction\n400,10,1.2\n", "strictly between 0 and 1"),
-    ("temperature_C,time_s,fraction\n400,-10,0.5\n", "positive seconds"),
+    ("temperature_C,time_s,fraction\n400,10,1.2\n", "from 0.0001 to 0.9999"),
+    ("temperature_C,time_s,fraction\n400,-10,0.5\n", "times must lie from 0.001"),
     ("temperature_C,time_s,fraction\n400,10,0.5\n400,20,0.3\n", "falls with time"),
     ("temperature_C,time_s,fraction,product\n900,10,0.5,bainite\n", "cannot reach"),
     ("temperature_C,time_s,fraction\n400,10,0.5\n", "cannot fit"),

@@ -16,8 +16,9 @@ def one_line(text) -> str:
     return _CONTROL.sub(lambda m: m.group().encode("unicode_escape").decode("ascii"), str(text))
 
 
-class InputError(Exception):
-    """Bad input from the user: shown as one line, exit code 2.
+class InputError(ValueError):
+    """Bad input from the user: shown as one line, exit code 2 (a ValueError, for callers that
+    catch those).
 
     The library names keys as the alloy file does (``composition``, ``steel.grain_size_astm``);
     a caller that took the value from elsewhere (a command-line option) names its own key
@@ -51,3 +52,96 @@ def whole_number(key, value, low=0, high=None) -> int:
         span = f"from {low} to {high}" if high is not None else f"of {low} or more"
         raise InputError(None, key, f"must be a whole number {span}, got {value!r}")
     return number
+
+
+# --- Shared validators: one per kind of value. The library checks its arguments with these,
+# so the API and the command line refuse a value with the same line (the command line only
+# renames the key to its option). Each returns the value as the library uses it.
+
+#: Longest name (of an alloy, a heat, a product), characters.
+NAME_LIMIT = 120
+
+
+def _bounds_text(low, high, low_open, high_open, unit):
+    parts = [f"{'above' if low_open else 'at least'} {low:g}"] if low is not None else []
+    parts += [f"{'below' if high_open else 'at most'} {high:g}"] if high is not None else []
+    return " and ".join(parts) + (f" {unit}" if unit and parts else "")
+
+
+def numbers(key, value, low=None, high=None, *, low_open=False, high_open=False, unit="", source=None,
+            _what="finite numbers"):
+    """``value`` (a number, a list or an array of them, not text or booleans, not empty) as a
+    float array, every element finite and within the bounds; InputError naming ``key`` otherwise.
+
+    >>> numbers("time_s", [1, 2.5], low=0, low_open=True).tolist()
+    [1.0, 2.5]
+    """
+    import numpy as np
+
+    span = _bounds_text(low, high, low_open, high_open, unit)
+    wanted = _what + (f" {span}" if span else "")
+    try:
+        given = np.asarray(value)
+    except (TypeError, ValueError, OverflowError):  # e.g. ragged lists
+        raise InputError(source, key, f"must be {wanted}, got {_shown(value)}") from None
+    if given.dtype.kind == "O":  # a table column of mixed cells: the first that is not a number is named
+        odd = [v for v in given.flat if isinstance(v, (bool, np.bool_)) or not isinstance(v, (int, float, np.number))]
+        if odd:
+            raise InputError(source, key, f"must be {wanted}, got {_shown(odd[0])}")
+        given = given.astype(float)
+    if given.dtype.kind not in "iuf":
+        raise InputError(source, key, f"must be {wanted}, got {_shown(value)}")
+    array = given.astype(float)
+    if array.size == 0:
+        raise InputError(source, key, f"is empty; give {wanted}")
+    bad = ~np.isfinite(array)
+    if low is not None:
+        bad |= (array <= low) if low_open else (array < low)
+    if high is not None:
+        bad |= (array >= high) if high_open else (array > high)
+    if bad.any():
+        raise InputError(source, key, f"must be {wanted}, got {array[bad].flat[0]:g}")
+    return array
+
+
+def number(key, value, low=None, high=None, *, low_open=False, high_open=False, unit="", source=None) -> float:
+    """One finite number within the bounds, as a float (see :func:`numbers`).
+
+    >>> number("margin_K", 20, low=0, high=500)
+    20.0
+    """
+    import numpy as np
+
+    if not isinstance(value, (str, bytes)) and np.ndim(value) != 0:
+        span = _bounds_text(low, high, low_open, high_open, unit)
+        raise InputError(source, key, f"must be one finite number{' ' + span if span else ''}, got {_shown(value)}")
+    return float(numbers(key, value, low, high, low_open=low_open, high_open=high_open, unit=unit, source=source,
+                         _what="one finite number"))
+
+
+def text(key, value, limit=NAME_LIMIT, source=None) -> str:
+    """A name or a note: non-blank text of at most ``limit`` characters on one line.
+
+    >>> text("name", "Heat 4711")
+    'Heat 4711'
+    """
+    if not isinstance(value, str) or not value.strip():
+        raise InputError(source, key, f"must be a non-blank text, got {_shown(value)}")
+    if _CONTROL.search(value):
+        raise InputError(source, key, "must be one line of text without tabs or other control characters")
+    if len(value) > limit:
+        raise InputError(source, key, f"must be at most {limit} characters, got {len(value)}")
+    return value
+
+
+def choice(key, value, choices, source=None):
+    """One of ``choices`` (compared as given)."""
+    if isinstance(value, str) and value in choices:
+        return value
+    raise InputError(source, key, f"must be one of {', '.join(map(repr, choices))}, got {_shown(value)}")
+
+
+def _shown(value, limit=40) -> str:
+    """A value as a message shows it: its repr, shortened."""
+    shown = repr(value) if isinstance(value, (str, bytes, int, float, bool, type(None))) else type(value).__name__
+    return shown if len(shown) <= limit else shown[: limit - 3] + "..."

@@ -13,6 +13,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .constants import kelvin_to_celsius
+from .errors import InputError
 
 #: Times beyond this (about 32 years) are reported as "does not form in practice": they are
 #: left out of the curves, the figure and the exports rather than shown as huge numbers.
@@ -31,6 +32,13 @@ class Measurements:
     product: tuple
     source: str = "data"
     rows: tuple = ()
+
+
+def check_measurements(data):
+    """``data`` itself if it is :class:`Measurements`; InputError otherwise."""
+    if not isinstance(data, Measurements):
+        raise InputError(None, "data", f"must be measurements from isokin.read_measurements, got {type(data).__name__}")
+    return data
 
 
 @dataclass(frozen=True)

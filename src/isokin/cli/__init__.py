@@ -51,6 +51,7 @@ def main():
         if getattr(exc, "exit_code", None) != 2 or not hasattr(exc, "format_message"):
             raise
         command = exc.ctx.command_path if getattr(exc, "ctx", None) else "isokin"
-        typer.echo(f"isokin: error: {exc.format_message()} (see: {command} --help)", err=True)
+        message = exc.format_message().strip() or "give a command, e.g. isokin diagram alloys/aisi-1080-eutectoid.toml"
+        typer.echo(f"isokin: error: {message} (see: {command} --help)", err=True)
         sys.exit(2)
     sys.exit(code if isinstance(code, int) else 0)

@@ -24,7 +24,8 @@ def fit(
                     help="A parameter to fit, repeatable, e.g. bainite.factor (default: a factor per product "
                          "seen in the data).")] = None,
     bootstrap: Annotated[Optional[int], typer.Option("--bootstrap", parser=whole_number, metavar="N",
-                         help="Also percentile intervals from N resamples of the points (e.g. 200).")] = None,
+                         help="Also percentile intervals from N resamples of the points (e.g. 200; at most 2,000, "
+                              "and N x (free parameters + 1) x points at most 2 million).")] = None,
     plain: Annotated[bool, typer.Option("--plain-least-squares", help="Plain least squares instead of the robust "
                                         "loss.")] = False,
     overwrite: OverwriteOpt = False,

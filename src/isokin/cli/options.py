@@ -172,6 +172,7 @@ OverwriteOpt = Annotated[bool, typer.Option("--overwrite", help="Replace output 
 RangeOpt = Annotated[Optional[str], typer.Option("--range", metavar="EL=MIN:MAX,...",
                      help='Composition range, mass %, e.g. "C=0.38:0.43,Mn=0.75:1.00" (or EL=NOMINAL+-SIGMA).')]
 SamplesOpt = Annotated[Optional[int], typer.Option("--samples", parser=whole_number, metavar="N",
-                       help="Heats sampled over the range (Latin hypercube).")]
+                       help="Heats sampled over the range (Latin hypercube): spread 2 to 10,000 (default "
+                            "2,000), plan --worst-case 2 to 256 (default 64).")]
 SeedOpt = Annotated[Optional[int], typer.Option("--seed", parser=whole_number, metavar="N",
                     help="Seed of the sampling (default 0): the same seed gives the same heats.")]

@@ -42,9 +42,11 @@ def plan(
     budget: Annotated[Optional[str], typer.Option("--budget", metavar="DURATION",
                       help="Anneal: the time budget of the hold (default 8h).")] = None,
     margin_k: Annotated[Optional[float], typer.Option("--margin-k", parser=decimal_number, metavar="NUMBER",
-                        help="Keep hold temperatures this far above Ms, K (austemper 20, interrupted quench 10).")] = None,
+                        help="Keep hold temperatures this far above Ms, 0 to 500 K (austemper 20, interrupted quench "
+                             "10).")] = None,
     safety: Annotated[Optional[float], typer.Option("--safety", parser=decimal_number, metavar="NUMBER",
-                      help="Safety factor on the model's times (austemper 1.5, interrupted quench 2, anneal 1.5).")] = None,
+                      help="Safety factor on the model's times, 1 to 100 (austemper 1.5, interrupted quench 2, "
+                           "anneal 1.5).")] = None,
     target_hv: Annotated[Optional[str], typer.Option("--target-hv", metavar="HV[:HV]",
                          help="Austemper: recommend the temperature closest to this hardness, HV. Quench and temper: "
                               "the hardness after tempering, a value or a range such as 300:340.")] = None,

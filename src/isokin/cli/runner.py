@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import os
 import re
+import warnings
 from pathlib import Path
 from typing import Optional
 
@@ -44,6 +45,9 @@ OPTION_NAMES = {
     "heat_transfer_W_m2K": "--htc",
     "shape": "--shape",
     "bootstrap": "--bootstrap",
+    "times_s": "--times",
+    "name": "--name",
+    "target_hv": "--target-hv",
 }
 
 
@@ -159,6 +163,11 @@ def run(load, solve, *, overwrite=False, keys=None):
     typer.echo(CAUTION)
 
 
+#: Bytes a temporary name adds to an output file's name (io.export.write_outputs: a dot, the
+#: name, a dot, eight random characters and the suffix again).
+_TEMPORARY_EXTRA = 24
+
+
 def _claim(paths: list, overwrite: bool):
     """The folder of the output files is created and writable, and (without --overwrite) none of
     them exists; InputError otherwise."""
@@ -171,6 +180,14 @@ def _claim(paths: list, overwrite: bool):
         raise InputError(None, "--out", f"cannot create folder {out} ({exc.strerror})") from None
     if not out.is_dir() or not os.access(out, os.W_OK | os.X_OK):
         raise InputError(None, "--out", f"folder {out} is not writable; choose another with --out")
+    try:
+        limit = os.pathconf(out, "PC_NAME_MAX")
+    except (OSError, ValueError):
+        limit = 255
+    for path in paths:  # each file is first written under a temporary name a few bytes longer
+        if len(path.name.encode("utf-8")) + _TEMPORARY_EXTRA > limit:
+            raise InputError(None, "--out", f"the output name {path.name[:24]}... is {len(path.name.encode())} bytes, too "
+                             f"long for this file system ({limit}); shorten the alloy file's name or the output name")
     existing = [str(p) for p in paths if p.exists() or p.is_symlink()]
     if existing and not overwrite:
         raise InputError(None, "--out", f"{existing[0]} exists; pass --overwrite to replace it, or choose another --out")
@@ -193,14 +210,36 @@ def _write_run(files: dict, overwrite: bool):
 
     try:
         status("drawing the figure and writing the files")
-        drawn = files[figure].draw()
-        try:
-            _write({figure: lambda p: write_figure(drawn, p, figure.suffix[1:]),
-                    **{path: writer for path, writer in files.items() if path != figure}}, out, overwrite)
-        finally:
-            plt.close(drawn)
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always")
+            drawn = files[figure].draw()
+            try:
+                _write({figure: lambda p: write_figure(drawn, p, figure.suffix[1:]),
+                        **{path: writer for path, writer in files.items() if path != figure}}, out, overwrite)
+            finally:
+                plt.close(drawn)
     finally:
         status.finish()
+    _figure_warnings(caught)
+
+
+#: matplotlib's warning for a character its font cannot draw (it draws an empty box instead).
+_MISSING_GLYPH = re.compile(r"Glyph (\d+) \(.*\) missing from font")
+
+
+def _figure_warnings(caught):
+    """Characters of a name the figure's font lacks, as one isokin warning line; any other
+    warning passes on as it came."""
+    missing = []
+    for w in caught:
+        match = _MISSING_GLYPH.search(str(w.message))
+        if not match:
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+        elif chr(int(match.group(1))) not in missing:
+            missing.append(chr(int(match.group(1))))
+    if missing:
+        typer.echo(f"isokin: warning: the figure's font has no character for {' '.join(missing)}; the figure shows an "
+                   "empty box in its place (the files keep the name as given)", err=True)
 
 
 def _write(writers: dict, out: Path, overwrite: bool):

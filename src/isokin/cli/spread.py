@@ -186,6 +186,8 @@ def _ranges(alloy, text):
             values = [parse_number(a), parse_number(b)] if _ else None
         if not sep or values is None or (isinstance(values, list) and None in values):
             raise InputError(None, "--range", f"'{item}' is not EL=MIN:MAX or EL=NOMINAL+-SIGMA, e.g. C=0.38:0.43")
+        if element.strip() in table:
+            raise InputError(None, "--range", f"{element.strip()} is given twice; give each element's range once")
         table[element.strip()] = values
     try:
         return read_ranges(None, table)

@@ -28,7 +28,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..constants import celsius_to_kelvin
-from ..errors import InputError
+from ..errors import InputError, number, numbers
+from ..products.alloy import check_alloy
 from ..products.base import as_query, batch_leading, writeable
 from ..results import OVERALL, HoldResult
 
@@ -387,6 +388,9 @@ def regions_after(alloy, grid_K, finish_times, noses):
 
 #: Fractions of the milestones a hold reports for each product and for the total.
 MILESTONES = (0.01, 0.5, 0.99)
+#: Most (temperature, time) pairs in one hold: 100,000 take about a second and well under
+#: 1 GB here (benchmarks/bench_limits.py).
+MAX_HOLD_VALUES = 100_000
 
 
 def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
@@ -425,15 +429,18 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
     >>> round(float(after.fractions["pearlite"]), 3)
     1.0
     """
-    T_C = np.asarray(temperature_C, dtype=float)
-    t = np.asarray(time_s, dtype=float)
-    if not np.all(np.isfinite(T_C)) or np.any(T_C <= -273.15):
-        raise InputError(None, "temperature_C", "must be finite temperatures above -273.15 °C")
-    if not np.all(np.isfinite(t)) or np.any(t < 0.0):
-        raise InputError(None, "time_s", "must be finite hold times of 0 s or more")
-    if not (np.isfinite(quench_to_C) and quench_to_C > -273.15):
-        raise InputError(None, "quench_to_C", "must be a finite temperature above -273.15 °C")
-    T_C, t = np.broadcast_arrays(T_C, t)
+    check_alloy(alloy)
+    T_C = numbers("temperature_C", temperature_C, -273.15, low_open=True, unit="°C")
+    t = numbers("time_s", time_s, 0.0, unit="s")
+    number("quench_to_C", quench_to_C, -273.15, low_open=True, unit="°C")
+    try:
+        T_C, t = np.broadcast_arrays(T_C, t)
+    except ValueError:
+        raise InputError(None, "time_s", f"has shape {t.shape}, which does not match the temperatures' "
+                         f"{T_C.shape}") from None
+    if T_C.size > MAX_HOLD_VALUES:
+        raise InputError(None, "time_s", f"at most {MAX_HOLD_VALUES} (temperature, time) pairs in one hold, got "
+                         f"{T_C.size}")
     T = celsius_to_kelvin(T_C)
     held = Decomposition(alloy, T)
     fractions = dict(held.shares(t))

@@ -24,7 +24,8 @@ import numpy as np
 
 from ..constants import kelvin_to_celsius
 from ..errors import InputError, whole_number
-from ..results import FitResult, Measurements
+from ..products.alloy import check_alloy
+from ..results import PRACTICAL_HORIZON_S, FitResult, Measurements, check_measurements
 from .decomposition import Decomposition
 from .ttt import ttt
 
@@ -36,6 +37,57 @@ ROBUST_SCALE = 0.2
 CONFIDENCE = 0.95
 #: Bootstrap resamples at most (2,000 refit in about half a second here).
 MAX_BOOTSTRAP = 2000
+#: Measured points a fit takes at most: far more than isothermal dilatometry gives.
+MAX_POINTS = 500
+#: A bootstrap's work at most: resamples x (free parameters + 1) x points, the model times
+#: each step of the batched refit computes. 2,000,000 take about 5 s here
+#: (benchmarks/bench_limits.py); the refit runs in blocks of :data:`REFIT_BLOCK` of them,
+#: which bounds its memory (about 0.4 kB each).
+MAX_BOOTSTRAP_WORK = 2_000_000
+REFIT_BLOCK = 250_000
+#: A measured fraction lies at least this far from 0 and from 1: nearer, no dilatometer tells
+#: it from no transformation or a complete one, and its ln(-ln(1 - X)) means nothing.
+FRACTION_RESOLUTION = 1e-4
+#: Measured times lie from a millisecond (faster than any dilatometer) to the horizon beyond
+#: which isokin says "does not form in practice", s.
+MEASURED_TIME_RANGE_S = (1e-3, PRACTICAL_HORIZON_S)
+
+
+def first_bad_point(temperature_K, fraction, time_s):
+    """(index, what is wrong) of the first measured point a fit cannot take, or None: the one
+    check of the reader (row by row) and of :func:`fit` (measurements built in Python)."""
+    T, X, t = np.broadcast_arrays(*(np.asarray(a, dtype=float) for a in (temperature_K, fraction, time_s)))
+    checks = ((~(np.isfinite(T) & (T > 0.0)), lambda i: f"temperature_C must be a finite temperature above -273.15, "
+               f"got {T.flat[i] - 273.15:g}"),
+              (~((t >= MEASURED_TIME_RANGE_S[0]) & (t <= MEASURED_TIME_RANGE_S[1])), lambda i: f"times must lie "
+               f"from {MEASURED_TIME_RANGE_S[0]:g} to {MEASURED_TIME_RANGE_S[1]:g} s, got {t.flat[i]:g}"),
+              (~((X >= FRACTION_RESOLUTION) & (X <= 1.0 - FRACTION_RESOLUTION)), lambda i: f"fractions must lie from "
+               f"{FRACTION_RESOLUTION:g} to {1 - FRACTION_RESOLUTION:g} (no dilatometer tells a fraction nearer 0 or 1), "
+               f"got {X.flat[i]:g}"))
+    bad = np.stack([mask.ravel() for mask, _ in checks])
+    if not bad.any():
+        return None
+    i = int(np.argmax(bad.any(axis=0)))
+    return i, checks[int(np.argmax(bad[:, i]))][1](i)
+
+
+def _check_data(data):
+    """The measurements as :func:`read_measurements` gives them, with good points; InputError
+    naming the first bad row otherwise."""
+    check_measurements(data)
+    try:
+        arrays = [np.asarray(a, dtype=float) for a in (data.temperature_K, data.fraction, data.time_s)]
+        same = all(a.ndim == 1 and a.size == arrays[0].size for a in arrays) and len(data.product) == arrays[0].size
+    except (TypeError, ValueError):
+        same = False
+    if not same:
+        raise InputError(data.source, None, "temperature_K, fraction, time_s and product must be one value per point")
+    if arrays[0].size > MAX_POINTS:
+        raise InputError(data.source, None, f"holds {arrays[0].size} points; a fit takes at most {MAX_POINTS}")
+    bad = first_bad_point(*arrays)
+    if bad is not None:
+        i, problem = bad
+        raise InputError(data.source, f"row {data.rows[i] if len(data.rows) > i else i + 1}", problem)
 
 
 def avrami_exponent(time_s, fraction):
@@ -144,12 +196,18 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
     from scipy.optimize import least_squares
     from scipy.special import stdtrit
 
-    if alloy.batch_shape:
+    if check_alloy(alloy).batch_shape:
         raise InputError(None, "alloy", "a fit takes one alloy, not a batch")
+    _check_data(data)
     whole_number("bootstrap", bootstrap, 0, MAX_BOOTSTRAP)
+    whole_number("seed", seed)
     free = tuple(default_free(alloy, data) if free is None else free)
     _check_free(alloy, free)
     m, k = data.time_s.size, len(free)
+    if bootstrap * (k + 1) * m > MAX_BOOTSTRAP_WORK:
+        raise InputError(None, "bootstrap", f"{bootstrap} resamples of {m} points with {k} free parameters exceed a "
+                         f"run's limit of {MAX_BOOTSTRAP_WORK:,} resamples x (free + 1) x points; take at most "
+                         f"{MAX_BOOTSTRAP_WORK // ((k + 1) * m)} resamples")
     start = model_times(alloy, data)
     bad = ~np.isfinite(start)
     if bad.any():
@@ -176,31 +234,47 @@ def fit(alloy, data: Measurements, free=None, loss="soft_l1", bootstrap=0, seed=
     solution = least_squares(residuals, theta0, loss=loss, f_scale=ROBUST_SCALE, x_scale="jac", method="trf",
                              bounds=bounds)
     theta = solution.x
+    J = solution.jac
+    _check_constrained(free, J)
     values = _to_values(free, theta)
     fitted = with_values(alloy, values)
     times = model_times(fitted, data)
     r = _ln_ratio(times, data)
-    J = solution.jac
     dof = max(m - k, 1)
     s2 = float(np.sum(r**2) / dof)
-    try:
-        covariance = np.linalg.inv(J.T @ J) * s2
-    except np.linalg.LinAlgError:
-        covariance = np.full((k, k), np.nan)
+    covariance = np.linalg.pinv(J.T @ J) * s2
     half = stdtrit(dof, 0.5 + CONFIDENCE / 2) * np.sqrt(np.clip(np.diag(covariance), 0, None))
-    intervals = {n: tuple(_to_values([n], [v])[n] for v in (theta[i] - half[i], theta[i] + half[i]))
-                 for i, n in enumerate(free)}
+    # an interval wider than the plausible bounds of the fit is cut at them
+    low_end, high_end = np.maximum(theta - half, bounds[0]), np.minimum(theta + half, bounds[1])
+    intervals = {n: (_to_values([n], [low_end[i]])[n], _to_values([n], [high_end[i]])[n]) for i, n in enumerate(free)}
     boot = {}
     if bootstrap:
         rng = np.random.default_rng(seed)
         counts = np.stack([np.bincount(rng.integers(0, m, m), minlength=m) for _ in range(int(bootstrap))])
-        draws = _refit_batch(alloy, data, free, theta, bounds, counts, loss, progress)
+        per = max(1, REFIT_BLOCK // ((k + 1) * m))
+        draws = np.concatenate([_refit_batch(alloy, data, free, theta, bounds, counts[i:i + per], loss,
+                                             None if progress is None else
+                                             lambda done, _, i=i: progress(i + done, len(counts)))
+                                for i in range(0, len(counts), per)])
         lo, hi = np.percentile(draws, [50 * (1 - CONFIDENCE), 50 * (1 + CONFIDENCE)], axis=0)
         boot = {n: (_to_values([n], [lo[i]])[n], _to_values([n], [hi[i]])[n]) for i, n in enumerate(free)}
     return FitResult(alloy=alloy, fitted=fitted, free=free, values={n: float(v) for n, v in values.items()},
                      model_values=base, intervals=intervals, bootstrap_intervals=boot, residuals_ln_t=r,
                      rms_ln_t=float(np.sqrt(np.mean(r**2))), data=data, covariance=covariance, loss=loss,
                      avrami=_avrami(data, times), theta=theta, model_times_s=times)
+
+
+def _check_constrained(free, J):
+    """InputError where a free parameter moves no residual (the data do not constrain it) or
+    where the data cannot tell free parameters apart (the Jacobian has lower rank)."""
+    size = np.linalg.norm(J, axis=0)
+    idle = [n for n, s in zip(free, size) if not s > 1e-9 * max(float(np.max(size)), 1e-300)]
+    if idle:
+        raise InputError(None, "free", f"the data do not constrain {idle[0]} (no measured point moves with it); "
+                         "leave it out, or add holds where that product forms")
+    if np.linalg.matrix_rank(J / size) < len(free):
+        raise InputError(None, "free", f"the data cannot tell {', '.join(free)} apart; free fewer of them, or add "
+                         "holds at more temperatures")
 
 
 def _ln_ratio(times, data):
@@ -297,7 +371,8 @@ def band(result, fractions=(0.01, 0.5, 0.99), samples=100, seed=1, temperatures_
     if not result.free or not np.all(np.isfinite(result.covariance)):
         return T, centre.times_s[name], centre.times_s[name], centre.times_s[name]
     rng = np.random.default_rng(seed)
-    draws = rng.multivariate_normal(result.theta, result.covariance, size=samples)
+    bounds = np.array([_bounds(n, _to_internal(n, result.model_values[n])) for n in result.free]).T
+    draws = np.clip(rng.multivariate_normal(result.theta, result.covariance, size=samples), *bounds)
     batch = with_values(result.alloy, _to_values(result.free, draws.T))
     spread = ttt(batch, temperatures_C=kelvin_to_celsius(T), fractions=fractions)
     times = np.where(np.isfinite(spread.times_s[name]), spread.times_s[name], np.nan)

@@ -5,7 +5,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
-from ..errors import InputError
+from ..errors import InputError, number, numbers, whole_number
+from ..results import PRACTICAL_HORIZON_S
 
 DEFAULT_FRACTIONS = (0.01, 0.5, 0.99)
 DEFAULT_POINTS = 200
@@ -27,7 +28,7 @@ def default_fractions(extra=()):
 
 def check_fractions(fractions, key="fractions"):
     """The fractions as a sorted 1-D array; InputError unless each lies strictly in (0, 1)."""
-    fr = np.atleast_1d(np.asarray(fractions, dtype=float))
+    fr = np.atleast_1d(numbers(key, fractions))
     bad = fr[~((fr > 0) & (fr < 1))]
     if fr.ndim != 1 or fr.size == 0:
         raise InputError(None, key, "give one or more fractions, e.g. (0.01, 0.5, 0.99)")
@@ -60,8 +61,8 @@ def alloy_grid(alloy, tmin_C=None, tmax_C=None, points=None):
     """
     lo, hi = alloy.default_range_K
     for key, value in (("tmin_C", tmin_C), ("tmax_C", tmax_C)):
-        if value is not None and not (np.isfinite(value) and value > -273.15):
-            raise InputError(None, key, f"must be a finite temperature above absolute zero (-273.15 °C), got {value:g}")
+        if value is not None:
+            number(key, value, -273.15, low_open=True, unit="°C (absolute zero)")
     lo = celsius_to_kelvin(tmin_C) if tmin_C is not None else lo
     hi = celsius_to_kelvin(tmax_C) if tmax_C is not None else hi
     if not lo < hi:
@@ -69,6 +70,21 @@ def alloy_grid(alloy, tmin_C=None, tmax_C=None, points=None):
             raise InputError(None, "tmax_C", f"must lie above the lower temperature ({kelvin_to_celsius(lo):.1f} °C)")
         raise InputError(None, "tmin_C", f"must lie below the upper temperature ({kelvin_to_celsius(hi):.1f} °C)")
     n = points if points is not None else (alloy.default_points or DEFAULT_POINTS)
-    if not 3 <= n <= MAX_POINTS:
-        raise InputError(None, "points", f"must lie from 3 to {MAX_POINTS}, got {n}")
+    whole_number("points", n, 3, MAX_POINTS)
     return temperature_grid(lo, hi, n)
+
+
+#: Most hold times in one log-spaced grid.
+MAX_LOG_TIMES = 200
+
+
+def log_times(start_s, end_s, count, key="times_s"):
+    """``count`` hold times from ``start_s`` to ``end_s``, evenly spaced in ln t, s; each end
+    above 0 and at most the practical horizon (about 32 years), the end above the start.
+
+    >>> log_times(10.0, 1000.0, 3).tolist()
+    [10.0, 100.0, 1000.0]
+    """
+    start = number(key, start_s, 0.0, PRACTICAL_HORIZON_S, low_open=True, unit="s")
+    end = number(key, end_s, start, PRACTICAL_HORIZON_S, low_open=True, unit="s")
+    return np.geomspace(start, end, whole_number(key, count, 2, MAX_LOG_TIMES))

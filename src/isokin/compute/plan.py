@@ -13,10 +13,11 @@ from __future__ import annotations
 import numpy as np
 
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
-from ..errors import InputError
+from ..errors import InputError, number, numbers
+from ..products.alloy import check_alloy
 from ..readout import format_duration
 from ..relations.hardness import hardness_of_mixture
-from ..results import PlanResult
+from ..results import PRACTICAL_HORIZON_S, PlanResult
 from .cooling import constant_rate, cool, default_start_C, lumped_time_constant
 from .decomposition import Decomposition, ProductCurve, hold
 from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
@@ -39,6 +40,14 @@ DEFAULT_BUDGET_S = 8 * 3600.0
 INTERRUPTED_SPAN_K = 60.0
 #: Interrupted quench: the part has equalized when within this of the bath, K.
 EQUALIZED_WITHIN_K = 5.0
+#: Largest margin above Ms, K: far above it no bainite forms, and a window there means a slip.
+MAX_MARGIN_K = 500.0
+#: Largest safety factor on a hold time.
+MAX_SAFETY = 100.0
+#: (heat, temperature) pairs whose shares a worst-case plan integrates at once: each pair
+#: is integrated over quadrature nodes, so blocks of these bound the memory (about 100 kB a
+#: pair here; a 4140 range of 200 heats took 2.2 GB in one block).
+BLOCK_PAIRS = 2048
 #: Cautions each route's output carries.
 ROUTE_CAUTIONS = {
     "austemper": ("Austempering baths are molten salt (or hot oil) near the hold temperature: water or damp parts "
@@ -61,6 +70,7 @@ COMMON_CAUTION = ("The specifications that govern the parts and local codes come
 
 
 def _steel_only(alloy, route):
+    check_alloy(alloy)
     if alloy.model != "steel" or alloy.martensite is None:
         raise InputError(None, "route", f"'{route}' plans a steel (it needs Ms and bainite); this alloy is "
                          f"model = '{alloy.model}'; 'anneal' works on any alloy")
@@ -68,9 +78,31 @@ def _steel_only(alloy, route):
         raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
 
 
-def _check(name, value, low=0.0, open_low=True):
-    if not (np.isfinite(value) and (value > low if open_low else value >= low)):
-        raise InputError(None, name, f"must be a finite number above {low:g}, got {value!r}")
+def _checked(worst_case=None, safety=None, margin_K=None, limit_s=None, limit_key="max_hold_s", target_hv=None):
+    """The plan's options through the shared checks (the ones given): safety from 1 to
+    :data:`MAX_SAFETY`, a margin from 0 to :data:`MAX_MARGIN_K`, a time limit above 0 and at
+    most the practical horizon; the worst case a batch of heats."""
+    if worst_case is not None:
+        check_alloy(worst_case, "worst_case")
+    if safety is not None:
+        number("safety", safety, 1.0, MAX_SAFETY)
+    if margin_K is not None:
+        number("margin_K", margin_K, 0.0, MAX_MARGIN_K, unit="K")
+    if limit_s is not None:
+        number(limit_key, limit_s, 0.0, PRACTICAL_HORIZON_S, low_open=True, unit="s")
+    if target_hv is not None:
+        number("target_hv", target_hv, 0.0, 1500.0, low_open=True, unit="HV")
+
+
+def _in_blocks(evaluate, model, T):
+    """``evaluate(T)`` (a tuple of arrays along T) over blocks of the scan of at most
+    :data:`BLOCK_PAIRS` (heat, temperature) pairs, joined: the same numbers, bounded memory."""
+    T = np.asarray(T, dtype=float)
+    step = max(1, BLOCK_PAIRS // max(int(np.prod(model.batch_shape)), 1))
+    if T.size <= step:
+        return evaluate(T)
+    pieces = [evaluate(T[i:i + step]) for i in range(0, T.size, step)]
+    return tuple(np.concatenate(p) for p in zip(*pieces))
 
 
 def _over(model, T):
@@ -179,32 +211,34 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
         longest over the heats and Ms the highest; the other columns stay the nominal's.
     """
     _steel_only(alloy, "austemper")
-    model = worst_case if worst_case is not None else alloy
     safety = DEFAULT_SAFETY["austemper"] if safety is None else safety
-    for name, value in (("max_hold_s", max_hold_s), ("margin_K", margin_K), ("safety", safety)):
-        _check(name, value, low=1.0 if name == "safety" else 0.0, open_low=name != "margin_K" and name != "safety")
+    _checked(worst_case, safety, margin_K, max_hold_s, target_hv=target_hv)
+    model = worst_case if worst_case is not None else alloy
     ms = float(np.max(model.critical_K["Ms"]))
     bs = float(np.min(model.critical_K["Bs"]))
     low = ms + margin_K
     T = np.arange(low, max(bs, low + SCAN_STEP_K), SCAN_STEP_K)
     soft = ("ferrite", "pearlite")
 
-    def parts(T):
+    def block(T):
         d = Decomposition(model, _over(model, T))
         hold_s = d.time_to_total(0.99) * safety
         shares = d.shares(np.where(np.isfinite(hold_s), hold_s, 0.0))
         soft_share = np.where(np.isfinite(hold_s), sum(shares[n] for n in soft if n in shares), 1.0)
         return _worst(hold_s, model), _worst(soft_share, model)
 
-    def margin(T):
-        hold_s, soft_share = parts(T)
+    def parts(T):
+        return _in_blocks(block, model, T)
+
+    def margin(T, known=None):
+        hold_s, soft_share = parts(T) if known is None else known
         with np.errstate(divide="ignore", invalid="ignore"):
             m = np.minimum(np.log(max_hold_s) - np.log(hold_s), np.log(SOFT_LIMIT) - np.log(soft_share))
         return np.where(T >= low, np.nan_to_num(m, nan=-np.inf, posinf=np.inf), -np.inf)
 
     hold_s, soft_share = parts(T)
     start_soft = _worst(_times(model, _over(model, T), soft, 0.01), model, np.min)
-    ok = margin(T) >= 0.0
+    ok = margin(T, (hold_s, soft_share)) >= 0.0
     with np.errstate(divide="ignore", invalid="ignore"):
         by_time = np.log(max_hold_s / hold_s) <= np.log(SOFT_LIMIT / soft_share)
     governing = np.where(by_time, "bainite completion x safety vs the maximum hold",
@@ -255,10 +289,9 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
     5 K of the bath is compared with the safe time, and a warning given where it exceeds it.
     """
     _steel_only(alloy, "interrupted-quench")
-    model = worst_case if worst_case is not None else alloy
     safety = DEFAULT_SAFETY["interrupted-quench"] if safety is None else safety
-    _check("safety", safety, low=1.0, open_low=False)
-    _check("margin_K", margin_K, low=0.0, open_low=False)
+    _checked(worst_case, safety, margin_K)
+    model = worst_case if worst_case is not None else alloy
     ms = float(np.max(model.critical_K["Ms"]))
     T = np.arange(ms + margin_K, ms + margin_K + span_K + 0.5 * SCAN_STEP_K, SCAN_STEP_K)
     start = _worst(Decomposition(model, _over(model, T)).time_to_total(0.01), model, np.min)
@@ -293,12 +326,11 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
     """Isothermal annealing: hold temperatures where the transformation completes (99 % of what
     can transform, x safety) within the budget without bainite (under 1 % after the hold);
     the fastest of them is recommended."""
-    if alloy.batch_shape:
+    if check_alloy(alloy).batch_shape:
         raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
-    model = worst_case if worst_case is not None else alloy
     safety = DEFAULT_SAFETY["anneal"] if safety is None else safety
-    _check("budget_s", budget_s)
-    _check("safety", safety, low=1.0, open_low=False)
+    _checked(worst_case, safety, limit_s=budget_s, limit_key="budget_s")
+    model = worst_case if worst_case is not None else alloy
     bs = float(np.max(model.critical_K.get("Bs", 0.0)))
     upper = min(float(np.min(p.upper_K)) for p in model.products if p.name != "bainite") if worst_case is not None \
         else max(float(p.upper_K) for p in alloy.products if p.name != "bainite")
@@ -321,7 +353,7 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
         return np.nan_to_num(m, nan=-np.inf, posinf=np.inf)
 
     hold_s, transformable = parts(T)
-    ok = margin(T) >= 0.0
+    ok = margin(T) >= 0.0  # (its completion times again: cheap here, no shares are integrated)
     extra = {"transformable_share": transformable}
     if alloy.martensite is not None:
         finite = np.where(np.isfinite(hold_s), hold_s, 1.0)
@@ -435,7 +467,7 @@ def quench_and_temper(alloy, curve, target_hv, temper_s=DEFAULT_TEMPER_S, quench
     """
     _steel_only(alloy, "quench-and-temper")
     low, high = _target_range(target_hv)
-    _check("temper_s", temper_s)
+    number("temper_s", temper_s, 0.0, PRACTICAL_HORIZON_S, low_open=True, unit="s")
     T_C = np.arange(TEMPER_SCAN_C[0], TEMPER_SCAN_C[1] + 0.5 * SCAN_STEP_K, SCAN_STEP_K)
     tempered = temper(alloy, T_C, temper_s, curve)
     hv = tempered.hardness_HV
@@ -498,8 +530,8 @@ def quench_and_temper(alloy, curve, target_hv, temper_s=DEFAULT_TEMPER_S, quench
 
 
 def _target_range(target_hv):
-    values = np.atleast_1d(np.asarray(target_hv, dtype=float))
-    if values.size not in (1, 2) or not np.all(np.isfinite(values)) or np.any(values <= 0):
-        raise InputError(None, "target_hv", f"give a target hardness or range in HV, e.g. 330 or (320, 360), got "
-                         f"{target_hv!r}")
+    values = np.atleast_1d(numbers("target_hv", target_hv, 0.0, 1500.0, low_open=True, unit="HV"))
+    if values.size not in (1, 2):
+        raise InputError(None, "target_hv", f"give a target hardness or a range of two, in HV, e.g. 330 or (320, 360); "
+                         f"got {values.size} values")
     return float(values.min()), float(values.max())

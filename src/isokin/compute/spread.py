@@ -12,14 +12,20 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..errors import InputError, whole_number
+from ..errors import InputError, number, whole_number
+from ..products.alloy import check_alloy
 from ..results import Noses, SpreadResult
 from .ttt import ttt
 
 DEFAULT_SAMPLES = 2000
 #: The quantiles reported, besides the envelope (earliest and latest over the samples).
 QUANTILES = (0.05, 0.5, 0.95)
-MAX_SAMPLES = 20_000
+#: Most heats in a spread: 10,000 take about 5 s and 0.5 GB here (benchmarks/bench_limits.py;
+#: 20,000 came near 1 GB).
+MAX_SAMPLES = 10_000
+#: Most heats a worst-case plan samples: the austempering window integrates each heat's
+#: shares at every scanned temperature, about 13 ms per heat here (benchmarks/bench_limits.py).
+MAX_WORST_CASE_SAMPLES = 256
 #: Heats a worst-case hold plan samples unless told otherwise: enough to find the corners
 #: of a grade's range at a small part of a full spread's cost (our choice).
 WORST_CASE_SAMPLES = 64
@@ -30,19 +36,19 @@ CHUNK_HEATS = 500
 
 def check_ranges(ranges: dict) -> dict:
     """Ranges as {element: ("range", low, high) or ("normal", nominal, sigma)}, checked."""
+    if not isinstance(ranges, dict) or not ranges:
+        raise InputError(None, "composition_range", "is empty; give the range of one or more elements "
+                         "(e.g. C from 0.38 to 0.43 mass %)")
     out = {}
     for element, spec in ranges.items():
+        key = f"composition_range.{element}"
+        if not (isinstance(spec, tuple) and len(spec) == 3 and spec[0] in ("range", "normal")):
+            raise InputError(None, key, f'must be ("range", min, max) or ("normal", nominal, sigma), got {spec!r}')
         kind, a, b = spec
-        if kind == "range":
-            if not (np.isfinite(a) and np.isfinite(b) and 0.0 <= a <= b):
-                raise InputError(None, f"composition_range.{element}", f"must be [min, max] with 0 <= min <= max, "
-                                 f"got [{a:g}, {b:g}]")
-        elif kind == "normal":
-            if not (np.isfinite(a) and np.isfinite(b) and a >= 0.0 and b >= 0.0):
-                raise InputError(None, f"composition_range.{element}", "nominal and uncertainty must be >= 0")
-        else:
-            raise InputError(None, f"composition_range.{element}", f"unknown kind {kind!r}")
-        out[element] = (kind, float(a), float(b))
+        a, b = number(key, a, 0.0, 100.0), number(key, b, 0.0, 100.0)
+        if kind == "range" and not a <= b:
+            raise InputError(None, key, f"must be [min, max] with 0 <= min <= max, got [{a:g}, {b:g}]")
+        out[element] = (kind, a, b)
     return out
 
 
@@ -57,8 +63,7 @@ def nominal_of(composition: dict, ranges: dict) -> dict:
 
 def sample_compositions(composition: dict, ranges: dict, samples=DEFAULT_SAMPLES, seed=0) -> dict:
     """Element -> array of ``samples`` contents, a Latin hypercube over the ranged elements."""
-    if not 2 <= samples <= MAX_SAMPLES:
-        raise InputError(None, "samples", f"must lie from 2 to {MAX_SAMPLES}, got {samples}")
+    whole_number("samples", samples, 2, MAX_SAMPLES)
     whole_number("seed", seed)
     nominal = nominal_of(composition, ranges)
     names = list(ranges)
@@ -90,8 +95,9 @@ def latin_hypercube(samples: int, dimensions: int, seed=0):
 def sampled_heats(alloy, ranges: dict, samples=WORST_CASE_SAMPLES, seed=0):
     """A batch of heats sampled over the ranges (:func:`sample_compositions`), each built
     with the steel's own grain size, options and kinetics: e.g. the worst case of a hold plan."""
-    if alloy.composition is None:
+    if check_alloy(alloy).composition is None:
         raise InputError(None, "composition_range", "a composition range is for steels")
+    whole_number("samples", samples, 2, MAX_WORST_CASE_SAMPLES)
     mass = sample_compositions(alloy.composition.analysis(), check_ranges(ranges), samples, seed)
     return alloy.with_composition(mass)
 
@@ -116,7 +122,7 @@ def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, b
     -------
     SpreadResult
     """
-    if alloy.composition is None:
+    if check_alloy(alloy).composition is None:
         raise InputError(None, "composition_range", "a composition spread is for steels")
     ranges = check_ranges(ranges)
     build = alloy.with_composition if build is None else build

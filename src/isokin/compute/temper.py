@@ -20,7 +20,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
-from ..errors import InputError
+from ..errors import InputError, number, numbers
+from ..products.alloy import check_alloy
 from ..relations.tempering import (SECONDS_PER_HOUR, hollomon_jaffe_constant_1945, hollomon_jaffe_parameter_1945,
                                    temperature_for_parameter, time_for_parameter)
 from ..results import TemperingCurve, TemperResult
@@ -47,32 +48,25 @@ def tempering_curve(temperature_C, hardness_HV, time_s=DEFAULT_CURVE_TIME_S, sou
     >>> curve.time_s.tolist()
     [3600.0, 3600.0, 3600.0]
     """
-    T_C = np.atleast_1d(np.asarray(temperature_C, dtype=float))
-    hv = np.atleast_1d(np.asarray(hardness_HV, dtype=float))
-    try:
-        t = np.broadcast_to(np.asarray(time_s, dtype=float), T_C.shape).copy()
-    except ValueError:
-        raise InputError(source, "time_s", "give one time for the curve or one per temper") from None
+    T_C = np.atleast_1d(_within(source, "temperature_C", temperature_C, TEMPER_RANGE_C, "°C"))
+    hv = np.atleast_1d(_within(source, "hardness_HV", hardness_HV, HARDNESS_RANGE_HV, "HV"))
     if T_C.ndim != 1 or hv.shape != T_C.shape or T_C.size < 2:
         raise InputError(source, None, "a tempering curve needs two or more tempers, each a temperature and a hardness")
-    _within(source, "temperature_C", T_C, TEMPER_RANGE_C)
-    _within(source, "hardness_HV", hv, HARDNESS_RANGE_HV)
-    _within(source, "time_s", t, TIME_RANGE_S)
+    try:
+        t = np.broadcast_to(_within(source, "time_s", time_s, TIME_RANGE_S, "s"), T_C.shape).copy()
+    except ValueError:
+        raise InputError(source, "time_s", "give one time for the curve or one per temper") from None
     return TemperingCurve(celsius_to_kelvin(T_C), hv, t, source)
 
 
-def _within(source, key, values, span):
-    values = np.asarray(values, dtype=float)
-    if not (np.all(np.isfinite(values)) and np.all(values >= span[0]) and np.all(values <= span[1])):
-        raise InputError(source, key, f"must lie from {span[0]:g} to {span[1]:g}")
+def _within(source, key, values, span, unit=""):
+    return numbers(key, values, span[0], span[1], unit=unit, source=source)
 
 
 def _constant(alloy, constant):
+    check_alloy(alloy)
     if constant is not None:
-        if not (np.isfinite(constant) and 5.0 <= constant <= 40.0):
-            raise InputError(None, "constant", f"the Hollomon-Jaffe constant must lie from 5 to 40 (about 20), "
-                             f"got {constant!r}")
-        return float(constant)
+        return number("constant", constant, 5.0, 40.0)
     if alloy.model != "steel" or alloy.batch_shape:
         raise InputError(None, "alloy", "tempering needs one steel (its carbon sets the Hollomon-Jaffe constant)")
     return float(hollomon_jaffe_constant_1945(alloy.composition.C))
@@ -129,10 +123,8 @@ def temper(alloy, temperature_C, time_s, curve, constant=None):
     C = _constant(alloy, constant)
     _is_curve(curve)
     warnings = ()
-    T_C, t = np.broadcast_arrays(np.atleast_1d(np.asarray(temperature_C, dtype=float)),
-                                 np.atleast_1d(np.asarray(time_s, dtype=float)))
-    _within(None, "temperature_C", T_C, TEMPER_RANGE_C)
-    _within(None, "time_s", t, TIME_RANGE_S)
+    T_C, t = _pairs(_within(None, "temperature_C", temperature_C, TEMPER_RANGE_C, "°C"),
+                    _within(None, "time_s", time_s, TIME_RANGE_S, "s"))
     P_curve, hv_curve = _curve_in_parameter(curve, C)
     P = hollomon_jaffe_parameter_1945(celsius_to_kelvin(T_C), t, C)
     hv = np.interp(P, P_curve, hv_curve, left=np.nan, right=np.nan)
@@ -140,6 +132,22 @@ def temper(alloy, temperature_C, time_s, curve, constant=None):
         warnings += (f"{int(np.isnan(hv).sum())} temper(s) lie outside the tempering curve's span (equivalent 1 h "
                     f"tempers {_span_C(P_curve, C)}): no hardness is given there (the curve is not extrapolated)",)
     return _result(alloy, curve, C, T_C, t, P, hv, warnings=warnings)
+
+
+#: Most tempers in one call (a million take well under a second and 100 MB).
+MAX_TEMPERS = 1_000_000
+
+
+def _pairs(first, second):
+    """Two arrays broadcast against each other (1-D at least), at most :data:`MAX_TEMPERS`."""
+    try:
+        a, b = np.broadcast_arrays(np.atleast_1d(first), np.atleast_1d(second))
+    except ValueError:
+        raise InputError(None, "time_s", f"temperatures and times of shapes {np.shape(first)} and {np.shape(second)} "
+                         "do not pair up; give one of each per temper, or one for all") from None
+    if a.size > MAX_TEMPERS:
+        raise InputError(None, "time_s", f"at most {MAX_TEMPERS:,} tempers in one call, got {a.size:,}")
+    return a.astype(float), b.astype(float)
 
 
 def _span_C(P_curve, C):
@@ -177,8 +185,9 @@ def temper_for_hardness(alloy, hardness_HV, curve, time_s=None, temperature_C=No
                          "temperature (to find the time), not both")
     C = _constant(alloy, constant)
     _is_curve(curve)
-    target = np.atleast_1d(np.asarray(hardness_HV, dtype=float))
-    _within(None, "hardness_HV", target, HARDNESS_RANGE_HV)
+    target = np.atleast_1d(_within(None, "hardness_HV", hardness_HV, HARDNESS_RANGE_HV, "HV"))
+    if target.size > MAX_TEMPERS:
+        raise InputError(None, "hardness_HV", f"at most {MAX_TEMPERS:,} target hardnesses in one call")
     P_curve, hv_curve = _curve_in_parameter(curve, C)
     if np.any(np.diff(hv_curve) > 0.0):
         raise InputError(curve.source, None, "the curve's hardness rises somewhere as the temper gets hotter or "
@@ -194,8 +203,7 @@ def temper_for_hardness(alloy, hardness_HV, curve, time_s=None, temperature_C=No
                         + f"; the nearest reachable is {highest:.0f} HV (the mildest temper) or {lowest:.0f} HV "
                         "(the hottest)")
     if time_s is not None:
-        t = np.broadcast_to(np.asarray(time_s, dtype=float), target.shape).astype(float)
-        _within(None, "time_s", t, TIME_RANGE_S)
+        target, t = _pairs(target, _within(None, "time_s", time_s, TIME_RANGE_S, "s"))
         T_C = kelvin_to_celsius(temperature_for_parameter(P, t, C))
         outside = np.isfinite(T_C) & ((T_C < TEMPER_RANGE_C[0]) | (T_C > TEMPER_RANGE_C[1]))
         T_C = np.where(outside, np.nan, T_C)
@@ -203,8 +211,7 @@ def temper_for_hardness(alloy, hardness_HV, curve, time_s=None, temperature_C=No
             warnings.append(f"in {_duration_text(t)} the temper would lie outside {TEMPER_RANGE_C[0]:g} to "
                             f"{TEMPER_RANGE_C[1]:g} °C; choose another time")
     else:
-        T_C = np.broadcast_to(np.asarray(temperature_C, dtype=float), target.shape).astype(float)
-        _within(None, "temperature_C", T_C, TEMPER_RANGE_C)
+        target, T_C = _pairs(target, _within(None, "temperature_C", temperature_C, TEMPER_RANGE_C, "°C"))
         # beyond 10^4 h the answer is "over a month" whatever it is: capped before the power
         t = SECONDS_PER_HOUR * 10.0 ** np.minimum(P / celsius_to_kelvin(T_C) - C, 4.0)
         outside = np.isfinite(P) & ~((t >= TIME_RANGE_S[0]) & (t <= TIME_RANGE_S[1]))

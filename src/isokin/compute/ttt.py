@@ -10,11 +10,12 @@ from __future__ import annotations
 import numpy as np
 
 from ..constants import celsius_to_kelvin
-from ..errors import InputError
+from ..errors import InputError, numbers
+from ..products.alloy import check_alloy
 from ..products.base import writeable
 from ..results import OVERALL, Noses, TTTResult
 from .decomposition import WAIT_FRACTION, OverallCurve, ProductCurve, SharedDecomposition, regions_after
-from .grid import DEFAULT_FRACTIONS, alloy_grid, check_fractions
+from .grid import DEFAULT_FRACTIONS, MAX_POINTS, alloy_grid, check_fractions
 
 #: A nose faster than this (s) means an input slip, not a transformation: said in a warning.
 IMPLAUSIBLY_FAST_S = 1.0e-9
@@ -25,6 +26,10 @@ _NOSE_ZOOMS = 1
 #: Values a curve is asked for at once: a large batch is solved a few temperatures at a
 #: time, so its temporaries stay in the processor's cache instead of new memory pages.
 CHUNK_VALUES = 1 << 16
+#: Most values (heats x fractions x temperatures) one diagram call solves: 6 million (10,000
+#: heats x 3 fractions x 200 temperatures, a spread's largest batch) take a few seconds and
+#: well under 1 GB here (benchmarks/bench_limits.py); a larger batch is solved in parts.
+MAX_BATCH_VALUES = 6_000_000
 
 
 def curve_times(curves, temperatures_K, fractions):
@@ -161,13 +166,19 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
     >>> bool(500 < float(nose.temperature_C[0]) < 600), bool(nose.time_s[0] < 5)
     (True, True)
     """
+    check_alloy(alloy)
     fr = check_fractions(fractions)
     if temperatures_C is None:
         grid = alloy_grid(alloy, points=points)
     else:
-        grid = np.sort(celsius_to_kelvin(np.asarray(temperatures_C, dtype=float).ravel()))
-        if grid.size < 3 or not np.all(np.isfinite(grid)) or grid[0] <= 0 or np.any(np.diff(grid) <= 0):
-            raise InputError(None, "temperatures_C", "give three or more distinct finite temperatures above -273.15 °C")
+        grid = np.sort(celsius_to_kelvin(numbers("temperatures_C", temperatures_C, -273.15, low_open=True,
+                                                 unit="°C").ravel()))
+        if grid.size < 3 or np.any(np.diff(grid) <= 0) or grid.size > MAX_POINTS:
+            raise InputError(None, "temperatures_C", f"give 3 to {MAX_POINTS} distinct temperatures above -273.15 °C")
+    heats = int(np.prod(alloy.batch_shape))
+    if heats * fr.size * grid.size > MAX_BATCH_VALUES:
+        raise InputError(None, "alloy", f"{heats} heats x {fr.size} fractions x {grid.size} temperatures is more than "
+                         f"{MAX_BATCH_VALUES:,} values in one call; solve the batch in parts")
     within = decomposition and bool(alloy.sequence or any(p.capped for p in alloy.products))
     shared = SharedDecomposition(alloy)
     curves = [ProductCurve(alloy, p, shared) if within else p for p in alloy.products]

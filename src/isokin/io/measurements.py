@@ -21,6 +21,7 @@ from pathlib import Path
 
 import numpy as np
 
+from ..compute.fit import first_bad_point
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
 from ..errors import InputError
 from ..results import Measurements
@@ -66,18 +67,15 @@ def read_measurements(path, product_names=()):
             raise InputError(path, f"row {line}", f"unknown product '{product}'; this alloy has "
                              f"{', '.join(product_names)} (or leave it empty for the whole decomposition)")
         temperature = number(row, "temperature_C", line)
-        if not temperature > -273.15:
-            raise InputError(path, f"row {line}", "temperature_C must lie above -273.15")
         if curves:
             pairs = [(number(row, "time_s", line), number(row, "fraction", line))]
         else:
             pairs = [(number(row, "start_time_s", line), number(row, "start_fraction", line, DEFAULT_START)),
                      (number(row, "finish_time_s", line), number(row, "finish_fraction", line, DEFAULT_FINISH))]
         for time_s, fraction in pairs:
-            if not time_s > 0:
-                raise InputError(path, f"row {line}", f"times must be positive seconds, got {time_s:g}")
-            if not 0 < fraction < 1:
-                raise InputError(path, f"row {line}", f"fractions must lie strictly between 0 and 1, got {fraction:g}")
+            bad = first_bad_point(celsius_to_kelvin(temperature), fraction, time_s)
+            if bad is not None:
+                raise InputError(path, f"row {line}", bad[1])
             T.append(celsius_to_kelvin(temperature))
             X.append(fraction)
             t.append(time_s)

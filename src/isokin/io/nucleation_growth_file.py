@@ -119,5 +119,5 @@ def load(source: Path, head: dict, data: dict):
                              "choose another name")
     try:
         return nucleation_growth_alloy(head["name"], products, inputs={"alloy": data["alloy"], "product": tables})
-    except ValueError as exc:
-        raise InputError(source, "product.name", str(exc)) from None
+    except InputError as exc:
+        raise exc.relocated(source) from None

@@ -1,7 +1,7 @@
 """Checking input values, once, so the physics never sees a bad one.
 
 One path per kind of value: numbers written as text (:func:`parse_number`, for options,
-inline analyses and table cells), names (:func:`check_text`), files (:func:`read_input_file`),
+inline analyses and table cells), names (:func:`isokin.errors.text`), files (:func:`read_input_file`),
 and typed TOML keys with ranges (:class:`Key`, :func:`read_table`).
 """
 
@@ -16,18 +16,16 @@ import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 
-from ..errors import InputError
+from ..errors import NAME_LIMIT, InputError, text
 
 #: A plain decimal number: ASCII digits, optional sign, point and exponent; no underscores,
 #: no "inf" or "nan", no other scripts' digits.
 _DECIMAL = re.compile(r"[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?", re.ASCII)
 _INTEGER = re.compile(r"[+-]?[0-9]+", re.ASCII)
-#: Longest name (alloy, product) and note, in characters.
-NAME_LIMIT = 120
+#: Longest note, in characters (a name's limit is :data:`isokin.errors.NAME_LIMIT`).
 NOTE_LIMIT = 2000
 #: Largest alloy file and data table read, bytes: far above any real one.
 FILE_LIMIT_BYTES = 1_000_000
-_CONTROL = re.compile(r"[\x00-\x1f\x7f-\x9f\u2028\u2029]")
 
 
 def parse_number(text: str, integer: bool = False):
@@ -65,17 +63,6 @@ def parse_duration(text: str):
     if number is None or number < 0:
         return None
     return number * DURATION_UNITS_S[match.group(2) or "s"]
-
-
-def check_text(source, key, value, limit=NAME_LIMIT):
-    """A name or note: non-empty text of at most ``limit`` characters on one line."""
-    if not isinstance(value, str) or not value.strip():
-        raise InputError(source, key, f"must be a non-empty text, got {value!r}")
-    if _CONTROL.search(value):
-        raise InputError(source, key, "must be one line of text without control characters")
-    if len(value) > limit:
-        raise InputError(source, key, f"must be at most {limit} characters, got {len(value)}")
-    return value
 
 
 def read_input_file(source, key, path: Path, what="file") -> str:
@@ -128,7 +115,7 @@ def _check_value(source, where, name, key: Key, value):
         if isinstance(value, bool) or not isinstance(value, int):
             raise InputError(source, label, f"must be a whole number, got {value!r}")
     elif key.kind is str:
-        check_text(source, label, value, key.limit)
+        text(label, value, key.limit, source=source)
     elif key.kind is list:
         if not isinstance(value, list) or len(value) > 100:
             raise InputError(source, label, f"must be a list (of at most 100 values), got {value!r}")

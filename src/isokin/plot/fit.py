@@ -7,6 +7,7 @@ import numpy as np
 
 from ..constants import kelvin_to_celsius
 from ..readout import CAUTION_SHORT
+from ..results import PRACTICAL_HORIZON_S
 from .labels import declutter
 from .ttt import OVERALL_COLOUR, fraction_styles, literal, log_time_axis, to_units
 
@@ -30,7 +31,8 @@ def shown_fractions(measured):
 def fit_figure(result, curves, fractions=(0.01, 0.5, 0.99), units="C"):
     """``curves`` = (T_K, times, lo, hi) of :func:`isokin.compute.fit.band` at ``fractions``, drawn
     in the diagrams' line patterns, with the measured points over them."""
-    T, centre, lo, hi = curves
+    # times beyond the practical horizon are left out, as in every figure
+    T, centre, lo, hi = (curves[0], *(np.where(np.asarray(c) <= PRACTICAL_HORIZON_S, c, np.nan) for c in curves[1:]))
     def to(t_c):
         return to_units(t_c, units)
 

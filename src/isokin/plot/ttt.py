@@ -27,6 +27,8 @@ FRACTION_STYLES = {0.01: (0, (5, 2.5)), 0.5: "-", 0.99: (0, (1.2, 1.6))}
 #: Patterns for further fractions, in order: each extra fraction has one of its own.
 OTHER_FRACTION_STYLES = ((0, (6, 2, 1.2, 2)), (0, (10, 2)), (0, (3, 1.5, 1, 1.5, 1, 1.5)), (0, (8, 2, 2, 2)),
                          (0, (2, 3)), (0, (12, 2, 1, 2)), (0, (4, 4)), (0, (1, 1)), (0, (7, 1.5, 1.5, 1.5, 1.5, 1.5)))
+#: Points drawn per curve at most (the grid's own points are thinned to this).
+MAX_DRAWN_POINTS = 800
 LINE_STYLE = {"color": "#555555", "linewidth": 0.8, "linestyle": (0, (8, 3))}
 TIME_MARKS_S = {"1 min": 60.0, "1 h": 3600.0, "1 day": 86400.0, "1 week": 604800.0}
 
@@ -84,6 +86,10 @@ def plot_ttt(result: TTTResult, ax=None, units="C"):
     if ax is None:
         _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
     t_c = to_units(result.temperatures_C, units)
+    # a line needs no more points than the figure has pixels: drawing (and the legend's search
+    # for room) slows with every point of a fine grid; the noses are marked at their own values
+    step = max(1, -(-t_c.size // MAX_DRAWN_POINTS))
+    drawn = np.unique(np.r_[np.arange(0, t_c.size, step), t_c.size - 1])
     styles = fraction_styles(result.fractions)
     shown_times, shown_products, shown_fractions = [], {}, {}
     for i, name in enumerate(result.products):
@@ -96,7 +102,7 @@ def plot_ttt(result: TTTResult, ax=None, units="C"):
                 continue
             times = np.where(ok[k], result.times_s[name][k], np.nan)
             shown_times.append(times[ok[k]])
-            ax.plot(times, t_c, color=colour, linestyle=styles[k], linewidth=2.8 if bold else 1.3,
+            ax.plot(times[drawn], t_c[drawn], color=colour, linestyle=styles[k], linewidth=2.8 if bold else 1.3,
                     alpha=0.55 if light else 1.0, zorder=4 if bold else 3)
             shown_products[name] = colour
             shown_fractions[k] = styles[k]

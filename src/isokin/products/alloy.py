@@ -9,6 +9,14 @@ import numpy as np
 
 from ..errors import InputError
 
+def check_alloy(alloy, key="alloy"):
+    """``alloy`` itself if it is an :class:`Alloy`; InputError naming ``key`` otherwise."""
+    if not isinstance(alloy, Alloy):
+        raise InputError(None, key, f"must be an alloy from isokin.load_alloy or isokin.steel, got "
+                         f"{type(alloy).__name__}")
+    return alloy
+
+
 #: How close to the highest upper temperature the default grid ends, K: the times diverge there.
 UPPER_MARGIN_K = 0.5
 

@@ -14,6 +14,7 @@ from types import SimpleNamespace
 import numpy as np
 
 from ..constants import AVOGADRO_PER_MOL, BOLTZMANN_J_K
+from ..errors import InputError, choice, numbers
 from ..relations import jmak
 from ..relations.driving_force import (
     DrivingForceTable,
@@ -62,17 +63,34 @@ class NucleationGrowthParameters:
     incubation_time_s: float | np.ndarray = 0.0
 
     def __post_init__(self):
-        if self.driving_force not in DRIVING_FORCE_FORMS:
-            raise ValueError(f"driving_force must be one of {', '.join(DRIVING_FORCE_FORMS)}")
-        if self.mode not in jmak.MODES:
-            raise ValueError(f"mode must be one of {', '.join(jmak.MODES)}")
+        choice("driving_force", self.driving_force, DRIVING_FORCE_FORMS)
+        choice("mode", self.mode, tuple(jmak.MODES))
         if self.driving_force == "table":
             if self.table is None:
-                raise ValueError("driving_force 'table' needs a table of dGm(T)")
-        elif self.equilibrium_K is None or self.latent_heat_J_mol is None:
-            raise ValueError(f"driving_force '{self.driving_force}' needs equilibrium_K and latent_heat_J_mol")
+                raise InputError(None, "driving_force_table", "driving_force 'table' needs a table of dGm(T)")
+        else:
+            for name in ("equilibrium_K", "latent_heat_J_mol"):
+                if getattr(self, name) is None:
+                    raise InputError(None, name, f"driving_force '{self.driving_force}' needs equilibrium_K and "
+                                     "latent_heat_J_mol")
+        for name, (low, high, low_open) in _PHYSICAL.items():
+            if getattr(self, name) is not None or name not in _OPTIONAL:
+                numbers(name, getattr(self, name), low, high, low_open=low_open)
 
 
+#: What each numeric field can be physically, (low, high, low above 0): any finite value within
+#: these reaches the physics (the plausible ranges for metals are the alloy file's to check).
+_PHYSICAL = {
+    "molar_volume_m3_mol": (0.0, None, True), "interface_energy_J_m2": (0.0, None, True),
+    "nucleation_activation_J_mol": (0.0, None, False), "diffusion_prefactor_m2_s": (0.0, None, True),
+    "diffusion_activation_J_mol": (0.0, None, False), "diffusion_distance_m": (0.0, None, True),
+    "equilibrium_K": (0.0, None, True), "latent_heat_J_mol": (0.0, None, True),
+    "strain_energy_J_m3": (0.0, None, False), "wetting_angle_deg": (0.0, 180.0, True),
+    "site_density_m3": (0.0, None, True), "avrami_exponent": (0.0, None, True), "incubation_time_s": (0.0, None, False),
+}
+
+#: Numeric fields that may be None (see the class notes; the driving force's form needs the first two).
+_OPTIONAL = ("equilibrium_K", "latent_heat_J_mol", "site_density_m3", "avrami_exponent")
 
 #: Fields that hold numbers (and may hold a batch of them).
 _NUMERIC = (
@@ -316,7 +334,7 @@ def nucleation_growth_alloy(name: str, products, inputs=None) -> Alloy:
                      for p in products)
     names = [p.name for p in products]
     if len(set(names)) != len(names):
-        raise ValueError(f"each product needs its own name, got {names}")
+        raise InputError(None, "product.name", f"each product needs its own name, got {names}")
     upper = max(float(np.max(p.upper_K)) for p in products)
     lower = max(min(float(np.min(p.lower_K)) for p in products), DEFAULT_LOWER_FRACTION_OF_UPPER * upper)
     lines = {f"Te {p.name}" if len(products) > 1 else "Te": p.upper_K for p in products}

@@ -21,7 +21,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from ..constants import CALORIE_J, celsius_to_kelvin, kelvin_to_celsius
-from ..errors import InputError
+from ..errors import InputError, number, numbers, text
 from ..relations.composition import ELEMENTS, Composition, range_warnings
 from ..relations.steel_critical import (
     CALIBRATED_RANGES,
@@ -238,7 +238,9 @@ CRITICAL_ELEMENTS = ("C", "Mn", "Si", "Ni", "Cr", "Mo", "V", "W", "Cu", "P", "Al
 def _as_mapping(composition):
     """A mapping of element to contents from a mapping or a table with one row per heat."""
     if hasattr(composition, "columns") and hasattr(composition, "to_numpy"):
-        return {str(c): composition[c].to_numpy(dtype=float) for c in composition.columns}
+        # each column through the shared check: a text cell is named by its column, not converted
+        return {str(c): numbers(f"composition.{c}" if str(c) != "grain_size_astm" else "steel.grain_size_astm",
+                                composition[c].to_numpy()) for c in composition.columns}
     if not isinstance(composition, Mapping):
         raise InputError(None, "composition", "must map element symbols to mass %, e.g. {'C': 0.4, 'Mn': 0.8}")
     return dict(composition)
@@ -266,12 +268,9 @@ def _composition(mass_percent):
 
 
 def _grain(grain_size_astm, shape):
-    grain = np.asarray(DEFAULT_GRAIN_SIZE_ASTM if grain_size_astm is None else grain_size_astm, dtype=float)
     low, high = GRAIN_SIZE_RANGE
-    if not np.all((grain >= low) & (grain <= high)):
-        raise InputError(None, "steel.grain_size_astm",
-                         f"must be an ASTM E112 number from {low:g} (00) to {high:g}, got {np.ravel(grain)[0]:g}"
-                         if grain.size == 1 else f"must be ASTM E112 numbers from {low:g} (00) to {high:g}")
+    grain = numbers("steel.grain_size_astm", DEFAULT_GRAIN_SIZE_ASTM if grain_size_astm is None else grain_size_astm,
+                    low, high, unit="(ASTM E112 numbers; -1 is 00)")
     try:
         np.broadcast_shapes(shape, grain.shape)
     except ValueError:
@@ -341,6 +340,7 @@ def steel(composition, grain_size_astm=None, *, name=None, austenitizing_tempera
     >>> heats.batch_shape, [p.name for p in heats.products]
     ((2,), ['ferrite', 'pearlite', 'bainite'])
     """
+    name = None if name is None else text("name", name)
     mass_percent = _as_mapping(composition)
     if "grain_size_astm" in mass_percent:
         if grain_size_astm is not None:
@@ -452,10 +452,7 @@ def kinetics_model_key(value=None) -> str:
 
 def _check_austenitizing(temperature_C):
     if temperature_C is not None:
-        lo, hi = AUSTENITIZING_RANGE_C
-        if not lo <= temperature_C <= hi:
-            raise InputError(None, "steel.austenitizing_temperature_C",
-                             f"must lie from {lo:g} to {hi:g} °C, got {temperature_C:g}")
+        number("steel.austenitizing_temperature_C", temperature_C, *AUSTENITIZING_RANGE_C, unit="°C")
 
 
 def _no_time_scale(model, heats, single):

@@ -66,6 +66,8 @@ def validate_composition(mass_percent: Mapping[str, object]) -> None:
             array = np.asarray(value, dtype=float)
         except (TypeError, ValueError):
             raise ValueError(f"content of {symbol} is not a number: {value!r}") from None
+        if array.size == 0:
+            raise ValueError(f"content of {symbol} is empty; give a number, or one per heat")
         if not np.all(np.isfinite(array)):
             raise ValueError(f"content of {symbol} must be a finite number of mass %")
         if np.any(array < 0.0):
