@@ -78,6 +78,8 @@ COMMANDS = {
     "plan austemper": ["plan", "aisi-4140-crmo.toml", "--route", "austemper"],
     "plan interrupted": ["plan", "aisi-4340-nicrmo.toml", "--route", "interrupted-quench"],
     "plan anneal": ["plan", "aisi-4140-crmo.toml", "--route", "anneal"],
+    "plan without a window": ["plan", "aisi-4340-nicrmo.toml", "--route", "austemper", "--max-hold", "10s"],
+    "plan worst case": ["plan", "aisi-4140-crmo.toml", "--route", "austemper", "--worst-case", "--samples", "16"],
     "plan quench and temper": ["plan", "brackwater-bw52crv.toml", "--route", "quench-and-temper", "--curve",
                                "brackwater-bw52crv-tempering.csv", "--target-hrc", "44:48"],
     "temper": ["temper", "brackwater-bw52crv.toml", "--curve", "brackwater-bw52crv-tempering.csv",

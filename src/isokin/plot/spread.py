@@ -4,36 +4,45 @@ from __future__ import annotations
 
 import matplotlib.pyplot as plt
 import numpy as np
+from matplotlib.lines import Line2D
+from matplotlib.patches import Patch
 
 from ..constants import kelvin_to_celsius
 from .labels import movable
 from .ttt import OVERALL_COLOUR, PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
 
 
+#: The earliest start over the range: a colour and pattern of its own, not a product's.
+WORST_STYLE = {"color": "#c2187a", "linewidth": 2.4, "linestyle": (0, (7, 2, 1.5, 2)), "zorder": 6}
+BAND_COLOUR = "#5a7fa6"
+
+
 def plot_spread(result, ax=None, units="C"):
-    """The nominal diagram with the 5-95 % band of every curve, the earliest start (the worst
-    case) drawn boldly, and the range of Ms as a band."""
+    """The nominal diagram with the 5-95 % band of the curves of the whole decomposition (of
+    the one product where there is only one), the earliest start over the range (the worst
+    case) in its own colour, and the range of Ms as a band."""
     if ax is None:
         _, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
     plot_ttt(result.nominal, ax, units)
     y = to_units(result.nominal.temperatures_C, units)
-    for i, name in enumerate(result.quantiles_s):
-        colour = OVERALL_COLOUR if name == result.nominal.overall else PRODUCT_COLOURS[i % len(PRODUCT_COLOURS)]
-        q = np.where(np.isfinite(result.quantiles_s[name]), result.quantiles_s[name], np.nan)
-        for k in range(q.shape[1]):
-            ax.fill_betweenx(y, q[0, k], q[-1, k], color=colour, alpha=0.12, linewidth=0, zorder=1)
+    whole = result.nominal.overall or next(iter(result.quantiles_s))
+    q = np.where(np.isfinite(result.quantiles_s[whole]), result.quantiles_s[whole], np.nan)
+    for k in range(q.shape[1]):
+        ax.fill_betweenx(y, q[0, k], q[-1, k], color=BAND_COLOUR, alpha=0.22, linewidth=0, zorder=1)
     earliest = np.where(np.isfinite(result.earliest_start_s), result.earliest_start_s, np.nan)
-    ax.plot(earliest, y, color="#c0392b", linewidth=2.6, zorder=6, label="earliest start over the range")
+    ax.plot(earliest, y, **WORST_STYLE)
     lo, hi = (float(to_units(kelvin_to_celsius(t), units)) for t in result.ms_range_K)
     ax.axhspan(lo, hi, color="#999999", alpha=0.2, zorder=0, linewidth=0)
     movable(ax.text(0.005, hi, f" Ms {lo:.0f}-{hi:.0f} °{units} over the range", transform=ax.get_yaxis_transform(),
                     va="bottom", ha="left", fontsize=7.5, color="#444444"))
     ax.set_title(f"Spread over the composition range ({result.samples} heats): {literal(result.alloy)}",
                  fontsize=10.5, loc="left")
-    handles, labels = ax.get_legend_handles_labels()
     legend = ax.get_legend()
-    if legend is not None:
-        ax.legend(handles=[*legend.legend_handles, *handles[-1:]], fontsize=7.5, loc="lower left", framealpha=0.92)
+    band = "all products" if result.nominal.overall else literal(whole)
+    extra = [Patch(color=BAND_COLOUR, alpha=0.35, label=f"{band}: 5-95 % of the heats"),
+             Line2D([], [], label="earliest start (1 %) over the range", **WORST_STYLE)]
+    ax.legend(handles=[*(legend.legend_handles if legend is not None else []), *extra], fontsize=7.5,
+              loc="lower left", framealpha=0.92)
     return ax
 
 

@@ -327,5 +327,12 @@ def plot_plan(plan, result: TTTResult, ax=None, units="C"):
         ax.plot(t, y, marker="P", markersize=11, color="#1d5b28", markeredgecolor="white", zorder=8)
         movable(ax.annotate(f"recommended {y:.0f} °{units}, hold {format_duration(t)}", (t, y), xytext=(8, -14),
                             textcoords="offset points", fontsize=8, color="#1d5b28", zorder=8))
-    ax.set_title(f"Plan ({plan.route}): {literal(result.alloy)}", fontsize=11, loc="left")
+    heats = plan.options.get("worst_case_heats")
+    kind = plan.route + (f", worst case over {heats} heats" if heats else "")
+    if plan.window_C is None and plan.no_window:
+        note = "\n".join(textwrap.wrap(f"No window: {plan.no_window}", 70))
+        movable(ax.text(0.5, 0.5, literal(note), transform=ax.transAxes, ha="center", va="center", fontsize=8.5,
+                        color="#8a1c1c", zorder=9, bbox={"boxstyle": "round,pad=0.4", "facecolor": "white",
+                                                         "edgecolor": "#8a1c1c", "alpha": 0.92}))
+    ax.set_title(f"Plan ({kind}): {literal(result.alloy)}", fontsize=11, loc="left")
     return ax
