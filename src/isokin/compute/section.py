@@ -15,7 +15,8 @@ system per section; a batch of sections (leading axis) is one block-diagonal ban
 for scipy.linalg.solve_banded, with no loop over nodes or sections. Properties (k, rho c_p)
 are taken at the start of each step (at the node's temperature and transformed share), as is
 h where it depends on the surface temperature. Steps adapt: each is sized so that no node
-changes by more than ``max_step_K`` and no product grows by more than :data:`MAX_STEP_FRACTION`.
+changes by more than ``max_step_K`` (nor by more than :data:`RELATIVE_STEP` of its distance to the
+medium) and no product grows by more than :data:`MAX_STEP_FRACTION`.
 
 The coupling
 ------------
@@ -53,6 +54,8 @@ SHAPE_EXPONENT = {"plate": 0, "bar": 1, "sphere": 2}
 DEFAULT_NODES = 41
 #: Default largest change of any node's temperature in one step, K.
 MAX_STEP_K = 6.0
+#: Largest change of a node in one step, as a share of its distance to the medium.
+RELATIVE_STEP = 0.1
 #: Largest growth of any product's share in one step.
 MAX_STEP_FRACTION = 0.05
 #: The run ends when every node is within this of the medium, K.
@@ -264,14 +267,17 @@ def conduct(grid, start_K, medium_K, surface, properties, alloy=None, side_loss=
             if properties.latent_heat:
                 latent_next = _latent(alloy, gain, T_new)
             grown = max(float(np.max(g)) for n, g in gain.items() if not n.startswith("retained"))
-        T = T_new
+        T_before, T = T, T_new
         times.append(t)
         temps.append(T)
         if float(np.max(np.abs(T - Tm))) <= end_within_K:
             break
         if time_limit_s is not None and t >= time_limit_s:
             break
-        factor = min(max_step_K / max(change, 1e-12), MAX_STEP_FRACTION / grown if grown > 0 else np.inf)
+        # in the tail toward the medium, steps are also held to a share of what is left to go
+        allowed = np.minimum(max_step_K, RELATIVE_STEP * np.abs(T_before - Tm) + 1e-3)
+        factor = min(float(np.min(allowed / np.maximum(np.abs(T - T_before), 1e-12))),
+                     MAX_STEP_FRACTION / grown if grown > 0 else np.inf)
         dt *= float(np.clip(factor, 0.5, 1.25))
     else:
         raise InputError(None, "medium_C", f"the section did not cool within {MAX_STEPS} steps; check the surface "
