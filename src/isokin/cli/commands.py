@@ -11,6 +11,7 @@ from .diagram import check, diagram
 from .fit import fit
 from .hold import hold
 from .plan import plan
+from .section import jominy, section
 from .spread import compare, spread
 
 app = typer.Typer(
@@ -20,7 +21,7 @@ app = typer.Typer(
     "for heat-treatment planning. " + CAUTION,
 )
 
-for _command in (diagram, check, hold, cct, cool, plan, fit, spread, compare):
+for _command in (diagram, check, hold, cct, cool, section, jominy, plan, fit, spread, compare):
     app.command()(_command)
 
 

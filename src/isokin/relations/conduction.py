@@ -87,7 +87,7 @@ def heat_transfer_from_severity_W_m2K(severity_per_in, conductivity_W_mK):
         k of the steel, W/(m K).
 
     >>> round(float(heat_transfer_from_severity_W_m2K(0.35, 25.0)), 1)
-    688.98
+    689.0
     """
     return 2.0 * np.asarray(severity_per_in, dtype=float) / INCH_M * np.asarray(conductivity_W_mK, dtype=float)
 

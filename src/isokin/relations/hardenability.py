@@ -72,7 +72,7 @@ def ideal_critical_diameter_grossmann_in(composition, grain_size_astm=7.0):
     >>> from isokin.relations.composition import Composition
     >>> di, outside = ideal_critical_diameter_grossmann_in(Composition.from_dict({"C": 0.4, "Mn": 0.8, "Cr": 1.0}))
     >>> round(float(di), 2), outside
-    (2.68, [])
+    (2.66, [])
     """
     di = base_di_grossmann_in(composition.C, grain_size_astm)
     outside = []
