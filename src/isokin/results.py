@@ -335,6 +335,119 @@ class CoolingResult:
 
 
 @dataclass(frozen=True)
+class SectionResult:
+    """A quenched section, as data: a batch of B sections of one shape, N nodes each, M steps.
+
+    ``size_m`` (B,): thickness or diameter; ``depth_m`` (B, N): each node's depth below the
+    surface (nodes run from the centre to the surface); ``time_s`` (M,); ``temperature_K``
+    (B, N, M); ``curves_K``: "surface", "mid-radius", "centre" -> (B, M); ``final``: phase ->
+    (B, N) at the end of the run; ``hardness_HV`` (B, N) for steels, else None;
+    ``martensite_depth_m``: share (0.5, 0.9) -> (B,) depth to which martensite makes up at
+    least that share (the half-size where it does throughout, 0 where not even at the
+    surface); ``centre_at_medium_s`` (B,): when the centre comes within 5 K of the medium;
+    ``biot_number`` (B,): h (V/A) / k at the start; the heat balance over the run, J per
+    unit of r^m area: ``heat_out_J`` through the surface, ``latent_J`` released by the
+    products, ``sensible_J`` the change of the nodes' heat content (negative on cooling).
+    """
+
+    alloy: str
+    shape: str
+    size_m: np.ndarray
+    medium_C: float
+    start_C: float
+    surface: str
+    depth_m: np.ndarray
+    time_s: np.ndarray
+    temperature_K: np.ndarray
+    curves_K: dict
+    final: dict
+    hardness_HV: object
+    rate_at_700_C_per_h: np.ndarray
+    austenite_carbon: object
+    martensite_depth_m: dict
+    centre_at_medium_s: np.ndarray
+    biot_number: np.ndarray
+    heat_out_J: np.ndarray
+    latent_J: np.ndarray
+    sensible_J: np.ndarray
+    critical_K: dict
+    warnings: tuple = ()
+    inputs: dict = field(default_factory=dict)
+    provenance: dict = field(default_factory=dict)
+
+    def profile_columns(self) -> dict:
+        """Phases and hardness against depth: size_mm, depth_mm, one column per phase, hardness_HV."""
+        B, N = self.depth_m.shape
+        columns = {"size_mm": np.repeat(self.size_m * 1e3, N), "depth_mm": self.depth_m.ravel() * 1e3}
+        columns.update({name: v.ravel() for name, v in self.final.items()})
+        if self.hardness_HV is not None:
+            columns["hardness_HV"] = self.hardness_HV.ravel()
+        columns["cooling_rate_at_700_C_per_h"] = self.rate_at_700_C_per_h.ravel()
+        return columns
+
+    def curve_columns(self) -> dict:
+        """The cooling curves: size_mm, location, time_s, temperature_C."""
+        B, M = self.curves_K["centre"].shape
+        names = list(self.curves_K)
+        return {"size_mm": np.repeat(self.size_m * 1e3, len(names) * M),
+                "location": np.tile(np.repeat(np.array(names, dtype=object), M), B),
+                "time_s": np.tile(self.time_s, B * len(names)),
+                "temperature_C": kelvin_to_celsius(np.stack([self.curves_K[n] for n in names], axis=1)).ravel()}
+
+    def to_frame(self):
+        """Tidy pandas table of the profile: one row per section and node."""
+        import pandas as pd  # on the first table only: start-up (module notes)
+
+        return pd.DataFrame(self.profile_columns())
+
+
+@dataclass(frozen=True)
+class JominyResult:
+    """An end-quench test, as data: against the distance from the quenched end (N nodes,
+    ``distance_m`` rising), the hardness (HV), martensite share and cooling rate at 700 °C
+    (K/s); ``temperature_K`` (N, M) over ``time_s``; the hardness at the standard distances
+    (``distances_mm``, and ``sixteenths`` of an inch); ``half_martensite_m``: the distance to
+    50 % martensite; ``ideal_diameter_in``: DI by Grossmann's method; ``band``: the band
+    checked (distance_m, hrc_min, hrc_max, predicted_HRC, outside), or None.
+    """
+
+    alloy: str
+    distance_m: np.ndarray
+    hardness_HV: np.ndarray
+    martensite: np.ndarray
+    rate_at_700_C_per_s: np.ndarray
+    time_s: np.ndarray
+    temperature_K: np.ndarray
+    distances_mm: np.ndarray
+    hardness_mm_HV: np.ndarray
+    sixteenths: np.ndarray
+    hardness_sixteenths_HV: np.ndarray
+    half_martensite_m: float
+    ideal_diameter_in: float
+    band: object
+    start_C: float
+    water_C: float
+    jet_W_m2K: float
+    critical_K: dict
+    warnings: tuple = ()
+    inputs: dict = field(default_factory=dict)
+    provenance: dict = field(default_factory=dict)
+
+    def columns(self) -> dict:
+        """The curve at the standard distances: position, distance_mm, hardness_HV."""
+        return {"position": np.array([f"{d:g} mm" for d in self.distances_mm]
+                                     + [f"J{j}" for j in self.sixteenths], dtype=object),
+                "distance_mm": np.concatenate([self.distances_mm, self.sixteenths * 25.4 / 16.0]),
+                "hardness_HV": np.concatenate([self.hardness_mm_HV, self.hardness_sixteenths_HV])}
+
+    def to_frame(self):
+        """Tidy pandas table of the curve at the standard distances."""
+        import pandas as pd  # on the first table only: start-up (module notes)
+
+        return pd.DataFrame(self.columns())
+
+
+@dataclass(frozen=True)
 class CCTResult:
     """A continuous-cooling diagram as data: per rate, where each curve starts and finishes.
 

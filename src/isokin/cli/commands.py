@@ -11,6 +11,7 @@ from .diagram import check, diagram
 from .fit import fit
 from .hold import hold
 from .plan import plan
+from .section import jominy, section
 from .spread import compare, spread
 from .temper import temper
 
@@ -21,7 +22,7 @@ app = typer.Typer(
     "for heat-treatment planning. " + CAUTION,
 )
 
-for _command in (diagram, check, hold, cct, cool, plan, temper, fit, spread, compare):
+for _command in (diagram, check, hold, cct, cool, section, jominy, plan, temper, fit, spread, compare):
     app.command()(_command)
 
 

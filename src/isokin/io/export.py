@@ -517,6 +517,43 @@ def temper_summary(result) -> dict:
     }
 
 
+def section_summary(result) -> dict:
+    """A quenched section: its inputs, depths to martensite, centre arrival, profile and record."""
+    sections = []
+    for k, size in enumerate(result.size_m):
+        entry = {"size_mm": float(size * 1e3), "biot_number": _finite_or_none(result.biot_number[k], 4),
+                 "martensite_depth_mm": {f"{level:g}": round(float(d[k] * 1e3), 3)
+                                         for level, d in result.martensite_depth_m.items()},
+                 "centre_within_5_K_of_medium_s": _finite_or_none(result.centre_at_medium_s[k], 5),
+                 "heat_balance_J": {"out_through_surface": _finite_or_none(result.heat_out_J[k]),
+                                    "released_by_products": _finite_or_none(result.latent_J[k])},
+                 "profile": [{"depth_mm": round(float(result.depth_m[k, j] * 1e3), 4),
+                              **{name: round(float(v[k, j]), 5) for name, v in result.final.items()},
+                              **({"hardness_HV": _finite_or_none(result.hardness_HV[k, j], 4),
+                                  "hardness_HRC": _finite_or_none(hrc_from_hv_astm_e140(result.hardness_HV[k, j]), 3)}
+                                 if result.hardness_HV is not None else {})}
+                             for j in range(result.depth_m.shape[1])]}
+        sections.append(entry)
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy,
+        "shape": result.shape,
+        "start_temperature_C": result.start_C,
+        "medium_temperature_C": result.medium_C,
+        "surface": result.surface,
+        "sections": sections,
+        "size_meaning": "thickness of a plate, diameter of a bar or sphere",
+        "heat_balance_meaning": "J per unit of r^m area (per m2 of plate face; per radian and m of bar; per steradian)",
+        "hardness_method": _HARDNESS_NOTE,
+        "critical_temperatures_C": {k: round(float(kelvin_to_celsius(v)), 3) for k, v in result.critical_K.items()
+                                    if np.isfinite(v)},
+        "model_choices": result.provenance,
+        "warnings": list(result.warnings),
+        "inputs": result.inputs,
+        "note": CAUTION_SHORT,
+    }
+
+
 def write_temper_json(result, target: Path):
     write_json(temper_summary(result), target)
 
@@ -527,3 +564,33 @@ def write_temper_csv(result, target: Path):
                        "equivalent_1h_temperature_C": result.equivalent_1h_C, "hardness_HV": result.hardness_HV,
                        "hardness_HRC": hrc_from_hv_astm_e140(result.hardness_HV),
                        "embrittlement_range": result.embrittlement.astype(int)}, target)
+
+
+def jominy_summary(result) -> dict:
+    """The end-quench curve at the standard distances, J50, DI, the band check and the record."""
+    band = None
+    if result.band is not None:
+        b = result.band
+        band = [{"distance_mm": round(float(d * 1e3), 3), "hrc_min": float(lo), "hrc_max": float(hi),
+                 "predicted_HRC": round(float(p), 2), "inside": not bool(o)}
+                for d, lo, hi, p, o in zip(b["distance_m"], b["hrc_min"], b["hrc_max"], b["predicted_HRC"],
+                                           b["outside"])]
+    columns = result.columns()
+    return {
+        "isokin_version": __version__,
+        "alloy": result.alloy,
+        "start_temperature_C": result.start_C,
+        "water_temperature_C": result.water_C,
+        "curve": [{"position": p, "distance_mm": round(float(d), 4), "hardness_HV": _finite_or_none(hv, 4),
+                   "hardness_HRC": _finite_or_none(hrc_from_hv_astm_e140(hv), 3)}
+                  for p, d, hv in zip(columns["position"], columns["distance_mm"], columns["hardness_HV"])],
+        "distance_to_50_percent_martensite_mm": round(result.half_martensite_m * 1e3, 3),
+        "ideal_critical_diameter_in": round(result.ideal_diameter_in, 3),
+        "ideal_critical_diameter_mm": round(result.ideal_diameter_in * 25.4, 1),
+        "band": band,
+        "hardness_method": _HARDNESS_NOTE,
+        "model_choices": result.provenance,
+        "warnings": list(result.warnings),
+        "inputs": result.inputs,
+        "note": CAUTION_SHORT,
+    }

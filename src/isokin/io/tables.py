@@ -122,3 +122,49 @@ def read_tempering_curve(path: Path, source=None, key="curve"):
     except InputError as exc:
         raise InputError(source, key, f"tempering curve {path}: {exc.key or ''} {exc.problem}".replace("  ", " ")) \
             from None
+
+
+BAND_COLUMNS = ("hrc_min", "hrc_max")
+#: The distance column of a hardenability band: sixteenths of an inch or millimetres from the quenched end.
+BAND_DISTANCES = {"distance_sixteenths_in": 0.0254 / 16.0, "distance_mm": 1e-3}
+
+
+def read_hardness_band(path: Path, source=None, key="band"):
+    """A hardenability band from a CSV: a distance column (``distance_sixteenths_in`` or
+    ``distance_mm``) and ``hrc_min``, ``hrc_max``; returns (distance_m, hrc_min, hrc_max)."""
+    text = read_input_file(source, key, path, "band file")
+    header = next((line for line in text.splitlines() if line.strip() and not line.lstrip().startswith("#")), "")
+    names = [h.strip() for h in header.split(",")]
+    unit = next((name for name in BAND_DISTANCES if name in names), None)
+    if unit is None:
+        raise InputError(source, key, f"band file {path} needs a distance column: distance_sixteenths_in or "
+                         "distance_mm")
+    rows = []
+    for line, (d, lo, hi) in _numeric_rows(source, key, path, "band file", (unit, *BAND_COLUMNS)):
+        if not (0.0 < d * BAND_DISTANCES[unit] <= 0.1 and 0.0 <= lo <= hi <= 70.0):
+            raise InputError(source, key, f"band file {path}, line {line}: the distance must lie on the 100 mm bar "
+                             "and 0 <= hrc_min <= hrc_max <= 70")
+        rows.append((d * BAND_DISTANCES[unit], lo, hi))
+    if not rows:
+        raise InputError(source, key, f"band file {path} has no rows")
+    return tuple(np.array(v) for v in zip(*sorted(rows)))
+
+
+HTC_COLUMNS = ("temperature_C", "htc_W_m2K")
+
+
+def read_htc_table(path: Path, source=None, key="htc_table"):
+    """A quenchant's heat-transfer coefficient against the surface temperature, from a CSV with
+    columns temperature_C, htc_W_m2K (others ignored); returns (temperature_C, htc_W_m2K),
+    sorted by temperature."""
+    rows = []
+    for line, (t_c, h) in _numeric_rows(source, key, path, "heat-transfer table", HTC_COLUMNS):
+        if not (-273.15 < t_c <= TEMPERATURE_RANGE_C[1] and 0.0 < h <= 1.0e6):
+            raise InputError(source, key, f"heat-transfer table {path}, line {line}: temperature_C must lie above "
+                             "-273.15 and htc_W_m2K between 0 and 1e6 (exclusive of 0)")
+        rows.append((t_c, h))
+    t_c = np.array([r[0] for r in rows])
+    if np.unique(t_c).size < 2 or np.unique(t_c).size != t_c.size:
+        raise InputError(source, key, f"heat-transfer table {path} needs two or more rows with distinct temperatures")
+    order = np.argsort(t_c)
+    return t_c[order], np.array([r[1] for r in rows])[order]
