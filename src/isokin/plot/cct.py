@@ -5,16 +5,14 @@ Reads computed results; computes no physics; never switches the matplotlib backe
 
 from __future__ import annotations
 
-import textwrap
 
 import matplotlib.pyplot as plt
 import numpy as np
 from matplotlib.lines import Line2D
 
 from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
-from ..readout import CAUTION_SHORT
 from ..results import OVERALL, CCTResult, CoolingResult
-from .labels import declutter, movable
+from .labels import finish, movable
 from .ttt import LINE_STYLE, OVERALL_COLOUR, PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
 
 PATH_COLOUR = "#6a3d9a"
@@ -140,10 +138,4 @@ def report_figure(draw, result, footer, **kwargs):
     """A whole figure: ``draw(result, ax, ...)`` and a footer with the cautions."""
     fig, ax = plt.subplots(figsize=(8.6, 6.4), layout="constrained")
     draw(result, ax=ax, **kwargs)
-    text = "\n".join(textwrap.wrap(footer, 150)) if footer else ""
-    fig.text(0.01, 0.005, f"{literal(text)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
-             ha="left", va="bottom")
-    bottom = 0.025 * (text.count("\n") + 2) + 0.015
-    fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
-    declutter(fig)
-    return fig
+    return finish(fig, footer or "")

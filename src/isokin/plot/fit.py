@@ -6,9 +6,8 @@ import matplotlib.pyplot as plt
 import numpy as np
 
 from ..constants import kelvin_to_celsius
-from ..readout import CAUTION_SHORT
 from ..results import PRACTICAL_HORIZON_S
-from .labels import declutter
+from .labels import finish
 from .ttt import OVERALL_COLOUR, fraction_styles, literal, log_time_axis, to_units
 
 
@@ -61,8 +60,4 @@ def fit_figure(result, curves, fractions=(0.01, 0.5, 0.99), units="C"):
     res.set_xlabel("ln(model / measured time)")
     res.set_title(f"residuals, rms {result.rms_ln_t:.3f}", fontsize=9, loc="left")
     res.grid(True, color="#e4e4e4", linewidth=0.6)
-    fig.text(0.01, 0.003, f"band: 95 % of 100 parameter sets from the fit's covariance. {CAUTION_SHORT}",
-             fontsize=6.8, color="#444444", ha="left", va="bottom")
-    fig.get_layout_engine().set(rect=(0, 0.04, 1, 0.955))
-    declutter(fig)
-    return fig
+    return finish(fig, "band: 95 % of 100 parameter sets from the fit's covariance.")

@@ -10,8 +10,12 @@ small steps up and down (then sideways) from where it was asked to stand.
 
 from __future__ import annotations
 
+import textwrap
+
 import numpy as np
 from matplotlib.text import Annotation, Text
+
+from ..readout import CAUTION_SHORT
 
 MOVABLE = "isokin-movable"
 #: Steps tried, in units of the label's own height (up and down alternately), then sideways
@@ -21,6 +25,25 @@ VERTICAL_STEPS = np.array([0.0, 0.6, -0.6, 1.2, -1.2, 1.8, -1.8, 2.4, -2.4, 3.0,
 SIDEWAYS_STEPS = np.array([0.0, -0.5, 0.5, -1.0, 1.0])
 #: Clear space kept around a label, pixels.
 PAD_PX = 1.5
+
+
+def literal(text: str) -> str:
+    """Input text as plain text on a figure: a ``$`` is a dollar sign, never maths."""
+    return text.replace("$", r"\$")
+
+
+def finish(fig, footer="", width=150):
+    """Finish a report figure: the footer (``footer``, each paragraph wrapped to ``width``
+    characters, then the short caution) under the axes with room made for it, and the
+    movable labels set clear (:func:`declutter`). Returns the figure."""
+    lines = [line for paragraph in footer.split("\n") if paragraph.strip()
+             for line in textwrap.wrap(paragraph, width)]
+    text = "\n".join([*lines, f"{CAUTION_SHORT} isokin estimate."])
+    fig.text(0.01, 0.005, literal(text), fontsize=6.8, color="#444444", ha="left", va="bottom")
+    bottom = 0.025 * (len(lines) + 1) + 0.015
+    fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
+    declutter(fig)
+    return fig
 
 
 def movable(text):

@@ -7,15 +7,14 @@ are named in legends, never by text on the lines, so no label can collide.
 
 from __future__ import annotations
 
-import textwrap
 
 import matplotlib.pyplot as plt
 import numpy as np
 
 from ..constants import kelvin_to_celsius
-from ..readout import CAUTION_SHORT
 from ..relations.hardness import E140_HRC, E140_HV
 from .cct import plot_cct
+from .labels import finish
 from .ttt import literal, to_units
 
 LOCATION_STYLES = {"surface": ("#b2182b", "-"), "mid-radius": ("#ef8a62", (0, (6, 2))), "centre": ("#2166ac", "-")}
@@ -74,19 +73,10 @@ def plot_section_curves(result, cct, ax=None, units="C", index=0):
     handles, _ = ax.get_legend_handles_labels()
     legend = ax.get_legend()
     old = list(legend.legend_handles) if legend is not None else []
-    ax.legend(handles=old + extra, loc="lower left", bbox_to_anchor=(0.0, 0.05), fontsize=7, framealpha=0.92)
+    ax.legend(handles=old + extra, loc="lower left", bbox_to_anchor=(0.0, 0.11), fontsize=7, framealpha=0.92)
     ax.set_xlim(right=max(ax.get_xlim()[1], float(np.nanmax(t)) * 1.5))
     ax.set_title(f"Cooling of the section over the CCT diagram: {literal(result.alloy)}", fontsize=10, loc="left")
     return ax
-
-
-def _footer(fig, footer):
-    text = "\n".join(textwrap.wrap(footer, 170)) if footer else ""
-    fig.text(0.01, 0.005, f"{literal(text)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
-             ha="left", va="bottom")
-    bottom = 0.025 * (text.count("\n") + 2) + 0.015
-    fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
-    return fig
 
 
 def section_figure(result, cct, footer="", units="C"):
@@ -95,7 +85,7 @@ def section_figure(result, cct, footer="", units="C"):
                                       gridspec_kw={"width_ratios": [1, 1.35]})
     plot_hardness_profile(result, ax=left)
     plot_section_curves(result, cct, ax=right, units=units)
-    return _footer(fig, footer)
+    return finish(fig, footer, width=170)
 
 
 def plot_jominy(result, ax=None):
@@ -134,4 +124,4 @@ def plot_jominy(result, ax=None):
 def jominy_figure(result, footer=""):
     fig, ax = plt.subplots(figsize=(8.6, 5.6), layout="constrained")
     plot_jominy(result, ax=ax)
-    return _footer(fig, footer)
+    return finish(fig, footer, width=170)

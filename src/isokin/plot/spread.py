@@ -9,7 +9,7 @@ from matplotlib.patches import Patch
 
 from ..constants import kelvin_to_celsius
 from .labels import movable
-from .ttt import OVERALL_COLOUR, PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
+from .ttt import PRODUCT_COLOURS, literal, log_time_axis, plot_ttt, to_units
 
 
 #: The earliest start over the range: a colour and pattern of its own, not a product's.

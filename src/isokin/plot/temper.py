@@ -6,9 +6,8 @@ from __future__ import annotations
 import matplotlib.pyplot as plt
 import numpy as np
 
-from ..readout import CAUTION_SHORT
 from ..relations.hardness import E140_HRC, E140_HV
-from .labels import declutter
+from .labels import finish
 from .ttt import literal, to_units
 
 #: One colour per tempering time, dark to light (the first is the plan's or the first asked).
@@ -60,8 +59,4 @@ def tempering_figure(lines, points, title, units="C", target_HV=None, marks=None
     ax.set_title(literal(title), fontsize=11, loc="left")
     ax.grid(True, color="#e4e4e4", linewidth=0.6)
     ax.legend(fontsize=7.5, loc="upper right", framealpha=0.9)
-    text = " ".join(s for s in (footer, CAUTION_SHORT, "isokin estimate.") if s)
-    fig.text(0.01, 0.004, literal(text), fontsize=6.8, color="#444444", ha="left", va="bottom", wrap=True)
-    fig.get_layout_engine().set(rect=(0, 0.05, 1, 0.95))
-    declutter(fig)
-    return fig
+    return finish(fig, footer)

@@ -16,9 +16,9 @@ from matplotlib.lines import Line2D
 from matplotlib.ticker import FuncFormatter
 
 from ..constants import celsius_to_fahrenheit, kelvin_to_celsius
-from ..readout import CAUTION_SHORT, format_duration
+from ..readout import format_duration
 from ..results import PRACTICAL_HORIZON_S, TTTResult
-from .labels import declutter, movable
+from .labels import finish, literal, movable
 
 #: Dark, well-separated hues whose grey levels also differ.
 PRODUCT_COLOURS = ("#17324d", "#a8431a", "#2e6b3c", "#5b3a7a", "#7a6a12", "#0f6b73", "#7a2e4d", "#4d4d4d")
@@ -31,11 +31,6 @@ OTHER_FRACTION_STYLES = ((0, (6, 2, 1.2, 2)), (0, (10, 2)), (0, (3, 1.5, 1, 1.5,
 MAX_DRAWN_POINTS = 800
 LINE_STYLE = {"color": "#555555", "linewidth": 0.8, "linestyle": (0, (8, 3))}
 TIME_MARKS_S = {"1 min": 60.0, "1 h": 3600.0, "1 day": 86400.0, "1 week": 604800.0}
-
-
-def literal(text: str) -> str:
-    """Input text as plain text on a figure: a ``$`` is a dollar sign, never maths."""
-    return text.replace("$", r"\$")
 
 
 _SUPERSCRIPTS = str.maketrans("-0123456789", "⁻⁰¹²³⁴⁵⁶⁷⁸⁹")
@@ -227,16 +222,11 @@ def ttt_figure(result: TTTResult, footer_extra="", units="C", plan=None):
         plot_ttt(result, ax, units)
     else:
         plot_plan(plan, result, ax, units)
-    footer = "\n".join(textwrap.wrap(" · ".join(s for s in (result.footer, footer_extra) if s), 150))
+    footer = " · ".join(s for s in (result.footer, footer_extra) if s)
     if result.warnings:
         footer += (f"\n{len(result.warnings)} warning(s) for this input, such as a composition outside a model's "
                    "calibrated range: see the summary JSON.")
-    fig.text(0.01, 0.005, f"{literal(footer)}\n{CAUTION_SHORT} isokin estimate.", fontsize=6.8, color="#444444",
-             ha="left", va="bottom")
-    bottom = 0.025 * (footer.count("\n") + 2) + 0.015
-    fig.get_layout_engine().set(rect=(0, bottom, 1, 0.995 - bottom))
-    declutter(fig)
-    return fig
+    return finish(fig, footer)
 
 
 def _nose_labels(result: TTTResult, units):
