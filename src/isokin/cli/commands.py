@@ -15,7 +15,35 @@ from .section import jominy, section
 from .spread import compare, spread
 from .temper import temper
 
+class _Command(typer.core.TyperCommand):
+    """A command whose help shows no Python type names: the --help flag takes no value, and an
+    argument is shown by its placeholder alone (ALLOY.toml; a required one without braces)."""
+
+    def __init__(self, *args, **kwargs):
+        super().__init__(*args, **kwargs)
+        for param in self.params:
+            if param.param_type_name == "argument" and param.metavar:
+                param.display_type_rich = lambda ctx: ""
+                if param.required:
+                    param._usage_display_name = lambda name=param.metavar: name
+
+    def get_help_option(self, ctx):
+        option = super().get_help_option(ctx)
+        if option is not None:
+            option.metavar = ""
+        return option
+
+
+class _Group(typer.core.TyperGroup):
+    def get_help_option(self, ctx):
+        option = super().get_help_option(ctx)
+        if option is not None:
+            option.metavar = ""
+        return option
+
+
 app = typer.Typer(
+    cls=_Group,
     add_completion=False,
     no_args_is_help=True,
     help="isokin: isothermal transformation (TTT) diagrams from nucleation and growth kinetics, "
@@ -23,10 +51,10 @@ app = typer.Typer(
 )
 
 for _command in (diagram, check, hold, cct, cool, section, jominy, plan, temper, fit, spread, compare):
-    app.command()(_command)
+    app.command(cls=_Command)(_command)
 
 
-@app.command()
+@app.command(cls=_Command)
 def version():
     """Print the isokin version."""
     typer.echo(__version__)

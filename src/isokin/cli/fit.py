@@ -15,10 +15,10 @@ from .status import status
 
 
 def fit(
-    data_file: Annotated[Path, typer.Argument(help="Measurements (CSV): temperature_C,time_s,fraction or "
+    data_file: Annotated[Path, typer.Argument(metavar="MEASUREMENTS.csv", help="Measurements (CSV): temperature_C,time_s,fraction or "
                                               "temperature_C,start_time_s,finish_time_s [,product].")],
-    alloy_file: Annotated[Optional[Path], typer.Option("--alloy", help="The alloy file to calibrate.")] = None,
-    out: Annotated[Optional[Path], typer.Option("--out", help="The calibrated alloy file to write (never the "
+    alloy_file: Annotated[Optional[Path], typer.Option("--alloy", metavar="ALLOY.toml", help="The alloy file to calibrate.")] = None,
+    out: Annotated[Optional[Path], typer.Option("--out", metavar="FILE.toml", help="The calibrated alloy file to write (never the "
                                                 "input).")] = None,
     free: Annotated[Optional[list[str]], typer.Option("--free", metavar="PRODUCT.PARAMETER",
                     help="A parameter to fit, repeatable, e.g. bainite.factor (default: a factor per product "
@@ -26,7 +26,7 @@ def fit(
     bootstrap: Annotated[Optional[int], typer.Option("--bootstrap", parser=whole_number, metavar="N",
                          help="Also percentile intervals from N resamples of the points (e.g. 200; at most 2,000, "
                               "and N x (free parameters + 1) x points at most 2 million).")] = None,
-    plain: Annotated[bool, typer.Option("--plain-least-squares", help="Plain least squares instead of the robust "
+    plain: Annotated[bool, typer.Option("--plain-least-squares", metavar="", help="Plain least squares instead of the robust "
                                         "loss.")] = False,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,

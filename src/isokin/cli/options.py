@@ -103,11 +103,13 @@ class Inline:
 
 AlloyArg = Annotated[
     Optional[Path],
-    typer.Argument(help="Alloy file (TOML). Leave out when giving --composition.", show_default=False),
+    typer.Argument(metavar="ALLOY.toml", help="Alloy file (TOML). Leave out when giving --composition.",
+                   show_default=False),
 ]
 CompositionOpt = Annotated[
     Optional[str],
-    typer.Option("--composition", help='Steel heat analysis in mass %, e.g. "C=0.79,Mn=0.76,Si=0.25".'),
+    typer.Option("--composition", metavar="EL=MASS%,...",
+                 help='Steel heat analysis in mass %, e.g. "C=0.79,Mn=0.76,Si=0.25".'),
 ]
 GrainOpt = Annotated[
     Optional[float],
@@ -119,7 +121,7 @@ AustenitizingOpt = Annotated[
 ]
 MsMethodOpt = Annotated[
     Optional[str],
-    typer.Option("--ms-method", help="Ms correlation with --composition: van_bohemen_2012 (default, the most "
+    typer.Option("--ms-method", metavar="METHOD", help="Ms correlation with --composition: van_bohemen_2012 (default, the most "
                  "accurate on measured data), andrews_1965, andrews_1965_product or steven_haynes_1956."),
 ]
 BsMethodOpt = Annotated[
@@ -139,7 +141,7 @@ CalibrationOpt = Annotated[
 ]
 NameOpt = Annotated[
     Optional[str],
-    typer.Option("--name", help="Name of the heat, with --composition; also names the output files."),
+    typer.Option("--name", metavar="NAME", help="Name of the heat, with --composition; also names the output files."),
 ]
 #: The options of a steel given on the command line, in the order --help lists them.
 _STEEL_OPTIONS = (("composition", CompositionOpt), ("grain_size", GrainOpt), ("austenitizing_c", AustenitizingOpt),
@@ -164,11 +166,12 @@ def steel_options(command):
     return with_options
 
 
-UnitsOpt = Annotated[Units, typer.Option("--units", help="Temperatures of the figure and printed tables: C or F "
+UnitsOpt = Annotated[Units, typer.Option("--units", metavar="C|F", help="Temperatures of the figure and printed tables: C or F "
                                           "(files keep °C).")]
-OutOpt = Annotated[Path, typer.Option("--out", help="Folder for the output files.")]
-FormatOpt = Annotated[FigureFormat, typer.Option("--format", help="Figure file type.")]
-OverwriteOpt = Annotated[bool, typer.Option("--overwrite", help="Replace output files that already exist.")]
+OutOpt = Annotated[Path, typer.Option("--out", metavar="FOLDER", help="Folder for the output files.")]
+FormatOpt = Annotated[FigureFormat, typer.Option("--format", metavar="png|svg|pdf", help="Figure file type.")]
+OverwriteOpt = Annotated[bool, typer.Option("--overwrite", metavar="",
+                                            help="Replace output files that already exist.")]
 RangeOpt = Annotated[Optional[str], typer.Option("--range", metavar="EL=MIN:MAX,...",
                      help='Composition range, mass %, e.g. "C=0.38:0.43,Mn=0.75:1.00" (or EL=NOMINAL+-SIGMA).')]
 SamplesOpt = Annotated[Optional[int], typer.Option("--samples", parser=whole_number, metavar="N",

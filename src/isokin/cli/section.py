@@ -24,7 +24,8 @@ KEYS = {"size_m": "--size-mm", "severity_per_in": "--severity", "htc_table": "--
 def section(
     alloy_file: AlloyArg = None,
     inline: Inline = None,
-    shape: Annotated[str, typer.Option("--shape", help="plate (thickness), bar (diameter) or sphere (diameter).")] = "bar",
+    shape: Annotated[str, typer.Option("--shape", metavar="plate|bar|sphere",
+                                      help="plate (thickness), bar (diameter) or sphere (diameter).")] = "bar",
     size_mm: Annotated[Optional[float], typer.Option("--size-mm", parser=decimal_number, metavar="NUMBER",
                        help="Thickness of a plate or diameter of a bar or sphere, mm (required).")] = None,
     medium_c: Annotated[Optional[float], typer.Option("--medium-c", parser=decimal_number, metavar="NUMBER",

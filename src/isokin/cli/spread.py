@@ -31,7 +31,7 @@ def spread(
 ):
     """How the composition range spreads the curves: bands, the worst-case start, Ms range, drivers.
 
-    Samples heats over the range ([composition_range] of the file or --range), computes all
+    Samples heats over the range (the file's composition_range table, or --range), computes all
     their curves with the batch solver, and writes <stem>-spread.png, <stem>-spread.csv (quantiles and
     envelope per product, fraction and temperature) and <stem>-spread.json.
     """
@@ -83,13 +83,13 @@ def _print_spread(alloy, result, units):
 
 
 def compare(
-    alloy_files: Annotated[Optional[list[Path]], typer.Argument(help="Alloy files to compare.",
+    alloy_files: Annotated[Optional[list[Path]], typer.Argument(metavar="ALLOY.toml ...", help="Alloy files to compare.",
                                                                  show_default=False)] = None,
-    composition: Annotated[Optional[list[str]], typer.Option("--composition", help="A heat analysis to compare, "
+    composition: Annotated[Optional[list[str]], typer.Option("--composition", metavar="EL=MASS%,...", help="A heat analysis to compare, "
                            'e.g. "C=0.40,Mn=0.85"; repeatable.')] = None,
     grain_size: GrainOpt = None,
     out: OutOpt = Path("isokin-out"),
-    stem: Annotated[str, typer.Option("--stem", help="Name of the output files.")] = "comparison",
+    stem: Annotated[str, typer.Option("--stem", metavar="NAME", help="Name of the output files.")] = "comparison",
     fmt: FormatOpt = FigureFormat.png,
     overwrite: OverwriteOpt = False,
     units: UnitsOpt = Units.C,
