@@ -107,7 +107,7 @@ def cool(
             raise InputError(None, "--rate", "give one kind of path: --rate, --log, or --medium-c with "
                              "--time-constant-s or --thickness-mm and --htc")
         if rate:
-            path = [C.constant_rate(r, start) for r in rate]
+            path = C.constant_rates(rate, start)
         elif log is not None:
             from ..io.tables import read_cooling_log
 
@@ -122,7 +122,7 @@ def cool(
         status("following the cooling path")
         result = C.cool(alloy, path)
         isothermal = ttt(alloy)
-        continuous = C.cct(alloy, start_C=start) if alloy.model == "steel" else None
+        continuous = C.cct_beneath(alloy, start)
 
         def draw():
             from ..plot.cct import plot_cooling, report_figure
@@ -146,6 +146,7 @@ def cool(
             out / f"{stem}-cool-summary.json": lambda p: write_json(cooling_summary(result), p)})
 
     keys = {"end_C": "--medium-c", "path": "--medium-c"} if medium_c is not None else {"path": "--log"}
+    keys["rates_K_s"] = "--rate"
     run(lambda: load(alloy_file, inline), solve, overwrite=overwrite, keys=keys)
 
 
