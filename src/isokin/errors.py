@@ -58,7 +58,7 @@ def whole_number(key, value, low=0, high=None) -> int:
 
 def real_number(value):
     """``value`` as a float where it is one real number (an int, a float or a numpy scalar; not a
-    bool, a string or an array of several), else None.
+    bool, a string, an array of several or an int beyond any float), else None.
 
     >>> real_number(3), real_number("3"), real_number(True)
     (3.0, None, None)
@@ -69,7 +69,7 @@ def real_number(value):
         return None
     try:
         return float(value)
-    except (TypeError, ValueError):
+    except (TypeError, ValueError, OverflowError):
         return None
 
 
@@ -104,6 +104,6 @@ class Bounds:
         """``value`` as a float inside the range; InputError naming ``key`` otherwise."""
         number = real_number(value)
         if number is None or bool(self.outside(number)):
-            raise InputError(None, key, f"{self.rule}, got {value!r}" if number is None else
+            raise InputError(None, key, f"{self.rule}, got {value!r:.40}" if number is None else
                              f"{self.rule}, got {number!r}{' ' if self.unit else ''}{self.unit}")
         return number

@@ -58,10 +58,10 @@ RATE_K_S = Bounds(1e-4, 1e7, "must be a cooling rate from 0.0001 K/s (0.36 K/h, 
 TIME_CONSTANT_S = Bounds(1e-4, 1e7, "must be a Newtonian time constant from 0.0001 s to 1e+07 s", unit="s")
 #: A lumped section's size and heat transfer; its properties (the defaults are steel's).
 SECTION = {
-    "thickness_m": Bounds(1e-6, 10.0, "must be a section thickness or diameter from 1e-06 m to 10 m (0.001 mm to "
-                          "10 m)", unit="m"),
-    "heat_transfer_W_m2K": Bounds(1.0, 1e6, "must be a heat-transfer coefficient from 1 to 1e+06 W/(m2 K) (still "
-                                  "air about 10, agitated water about 1e4; common practice)", unit="W/(m2 K)"),
+    "thickness_m": Bounds(1e-6, 10.0, "must be a positive section thickness or diameter, from 1e-06 m to 10 m "
+                          "(0.001 mm to 10 m)", unit="m"),
+    "heat_transfer_W_m2K": Bounds(1.0, 1e6, "must be a positive heat-transfer coefficient, from 1 to 1e+06 W/(m2 K) "
+                                  "(still air about 10, agitated water about 1e4; common practice)", unit="W/(m2 K)"),
     "density_kg_m3": Bounds(100.0, 30000.0, "must be a density from 100 to 30000 kg/m3", unit="kg/m3"),
     "heat_capacity_J_kgK": Bounds(10.0, 10000.0, "must be a specific heat from 10 to 10000 J/(kg K)", unit="J/(kg K)"),
     "conductivity_W_mK": Bounds(0.01, 5000.0, "must be a thermal conductivity from 0.01 to 5000 W/(m K)",
@@ -133,7 +133,7 @@ def _start_and_end(start_C, end_C):
     """Start and end temperatures of a cooling, °C, each within :data:`TEMPERATURE_C` and the end below the start."""
     start, end = TEMPERATURE_C.check("start_C", start_C), TEMPERATURE_C.check("end_C", end_C)
     if not end < start:
-        raise InputError(None, "end_C", f"{end:g} °C must lie below the start temperature, {start:g} °C")
+        raise InputError(None, "start_C", f"{start:g} °C must lie above the end of cooling, {end:g} °C")
     return start, end
 
 
@@ -326,6 +326,13 @@ class _Tabulated:
 TABLE_POINTS = 8001
 
 
+def _table_grid(alloy):
+    """Temperatures of the rate tables, K: from the lowest at which any product forms (but 1 K at
+    the least: nothing forms that close to absolute zero) to the highest."""
+    low = max(min(float(np.min(p.lower_K)) for p in alloy.products), 1.0)
+    return np.linspace(low, max(float(np.max(p.upper_K)) for p in alloy.products), TABLE_POINTS)
+
+
 def _rate_tables(p, grid):
     """The product's isokinetic speed 1/F(T) and Scheil's incubation rate 1/tau(T) as
     :class:`_Tabulated` (the second None where it has no incubation)."""
@@ -369,10 +376,8 @@ def along(alloy, paths):
     so a coarser step moves only where a product is seen to start, not how far it has got."""
     if alloy.batch_shape:
         raise InputError(None, "alloy", "continuous cooling takes one alloy, not a batch")
-    top_K = max(float(np.max(p.upper_K)) for p in alloy.products)
-    t, T = _stack(paths, top_K)
-    # nothing forms within 1 K of absolute zero: the tables start there at the lowest
-    grid = np.linspace(max(min(float(np.min(p.lower_K)) for p in alloy.products), 1.0), top_K, TABLE_POINTS)
+    grid = _table_grid(alloy)
+    t, T = _stack(paths, grid[-1])
     own, sums = {}, {}
     products = list(alloy.products)
     by_name = {p.name: p for p in products}
@@ -557,11 +562,9 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
         product and of the whole decomposition, the final fractions and hardness, and the
         critical cooling rates.
     """
-    start = formation_top_C(alloy) if start_C is None else TEMPERATURE_C.check("start_C", start_C)
-    if not TEMPERATURE_C.check("end_C", end_C) < start:
-        raise InputError(None, "start_C", f"{start:g} °C must lie above the end of cooling, {end_C:g} °C")
+    start, end = _start_and_end(formation_top_C(alloy) if start_C is None else start_C, end_C)
     rates = np.sort(_rates(DEFAULT_RATES_K_S if rates_K_s is None else rates_K_s))
-    result = cool(alloy, [constant_rate(r, start, end_C) for r in rates])
+    result = cool(alloy, [constant_rate(r, start, end) for r in rates])
     t, T, f = result.time_s, result.temperature_K, result.fractions
     curves = {}
     names = [p.name for p in alloy.products]
@@ -572,7 +575,7 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
         start_t, start_T = first_reached(t, T, values, START_SHARE)
         finish_t, finish_T = first_reached(t, T, values, np.where(final >= START_SHARE, FINISH_SHARE * final, 0.0))
         curves[name] = {"start": (start_t, start_T), "finish": (finish_t, finish_T)}
-    critical = critical_rates(alloy, start, end_C)
+    critical = critical_rates(alloy, start, end)
     return CCTResult(alloy=alloy.name, rates_K_s=rates, start_C=start, cooling=result, curves=curves,
                      critical_rates=critical, critical_K=dict(alloy.critical_K))
 
