@@ -72,7 +72,7 @@ def log_file(folder, name, temperatures_C, step_s=1.0):
 
 def main():
     top = C.MAX_TEMPERATURE_C
-    n = C.MAX_PATHS
+    n = C.MAX_RATES
     rates = np.geomspace(C.RATE_K_S.low, C.RATE_K_S.high, n)
     print(f"target: each within {TARGET_S:g} s and {TARGET_MB:g} MB (peak resident memory of the process)")
     measure(f"cct, {n} rates from {C.RATE_K_S.low:g} to {C.RATE_K_S.high:g} K/s, from {top:g} °C",
@@ -107,6 +107,14 @@ def main():
         "result = isokin.cool(alloy, [zig] * (C.MAX_EVALUATION_POINTS // C.MAX_PATH_POINTS))\n"
         "print(result.time_s.shape)\n")
     measure(f"API isokin.cool at {C.MAX_EVALUATION_POINTS:,} points (4 zig-zag logs)", ["--snippet", snippet])
+    measure(f"API isokin.cool, 1 K/s from {top:g} °C, as many paths as {C.MAX_EVALUATION_POINTS:,} points allow",
+            ["--snippet", (
+                "import isokin\n"
+                "from isokin.compute import cooling as C\n"
+                f"alloy = isokin.load_alloy({str(ALLOY)!r})\n"
+                f"one = isokin.constant_rate(1.0, {top})\n"
+                "paths = [one] * (C.MAX_EVALUATION_POINTS // one.time_s.size)\n"
+                "print(len(paths), isokin.cool(alloy, paths).time_s.shape)\n")])
     measure(f"API isokin.cct, {n} rates from {top:g} °C", ["--snippet", (
         "import numpy as np, isokin\n"
         f"isokin.cct(isokin.load_alloy({str(ALLOY)!r}), np.geomspace(1e-4, 1e7, {n}), start_C={top})\n")])

@@ -67,13 +67,14 @@ SECTION = {
     "conductivity_W_mK": Bounds(0.01, 5000.0, "must be a thermal conductivity from 0.01 to 5000 W/(m K)",
                                 unit="W/(m K)"),
 }
-#: Most paths in one call: the rates of a CCT diagram, the --rate options of a cooling.
-MAX_PATHS = 60
+#: Most cooling rates in one run: the rates of a CCT diagram, the --rate options of a cooling (a
+#: call from Python may take more paths, up to MAX_EVALUATION_POINTS together).
+MAX_RATES = 60
 #: Most rows of a cooling log (a 10 Hz thermocouple for well over two hours), and its longest span
 #: (about 32 years, where the diagrams stop too).
 MAX_LOG_ROWS = 100_000
 MAX_LOG_SPAN_S = 1e9
-#: Most points of one path after refinement, and of all paths of one call together (paths x
+#: Most points of one path after refinement, and of all paths of one call together (paths ×
 #: longest path): the memory of a call grows with them, about 0.4 kB a point.
 MAX_PATH_POINTS = 250_000
 MAX_EVALUATION_POINTS = 1_000_000
@@ -152,12 +153,12 @@ def constant_rate(rate_K_s, start_C, end_C=20.0):
 
 
 def constant_rates(rates_K_s, start_C, end_C=20.0):
-    """One :func:`constant_rate` path per rate, in the order given: one to :data:`MAX_PATHS` rates."""
+    """One :func:`constant_rate` path per rate, in the order given: one to :data:`MAX_RATES` rates."""
     return [constant_rate(rate, start_C, end_C) for rate in _rates(rates_K_s)]
 
 
 def _rates(rates_K_s):
-    """One to :data:`MAX_PATHS` cooling rates, each within :data:`RATE_K_S`, as floats (key ``rates_K_s``)."""
+    """One to :data:`MAX_RATES` cooling rates, each within :data:`RATE_K_S`, as floats (key ``rates_K_s``)."""
     if isinstance(rates_K_s, str):
         rates = []
     elif real_number(rates_K_s) is not None:
@@ -167,8 +168,8 @@ def _rates(rates_K_s):
             rates = list(rates_K_s)
         except TypeError:
             rates = []
-    if not 1 <= len(rates) <= MAX_PATHS:
-        raise InputError(None, "rates_K_s", f"give from 1 to {MAX_PATHS} cooling rates in K/s, got "
+    if not 1 <= len(rates) <= MAX_RATES:
+        raise InputError(None, "rates_K_s", f"give from 1 to {MAX_RATES} cooling rates in K/s, got "
                          f"{len(rates) if rates else repr(rates_K_s)}")
     return [RATE_K_S.check("rates_K_s", rate) for rate in rates]
 
@@ -477,10 +478,11 @@ def first_reached(t, T, values, level):
 
 
 def _path_list(path):
-    """``path`` as a list of one to :data:`MAX_PATHS` cooling paths; InputError otherwise."""
+    """``path`` as a list of one or more cooling paths (their number is bounded by the points they
+    make together, :data:`MAX_EVALUATION_POINTS`); InputError otherwise."""
     paths = list(path) if isinstance(path, (list, tuple)) else [path]
-    if not 1 <= len(paths) <= MAX_PATHS:
-        raise InputError(None, "path", f"give from 1 to {MAX_PATHS} cooling paths, got {len(paths)}")
+    if not paths:
+        raise InputError(None, "path", "give one or more cooling paths, got none")
     for item in paths:
         try:
             item.time_s, item.temperature_K, item.label, item.warnings  # noqa: B018 (a path has these)
