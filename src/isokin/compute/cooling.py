@@ -101,15 +101,20 @@ class CoolingPath:
         return float(max(dT, 0.0) / dt * 3600.0) if dt > 0 else 0.0
 
 
-def _refined(path, top_K):
-    """The path's times and temperatures with linear points inserted where it can run below
-    ``top_K`` (above it nothing forms): steps of at most MAX_STEP_K, or coarser where that would
-    pass MAX_PATH_POINTS (a long zig-zag log). Above ``top_K`` the path keeps its own points."""
-    t, T = path.time_s, path.temperature_K
+def _pieces(path, top_K):
+    """Into how many pieces each step of the path is cut where it can run below ``top_K`` (above
+    it nothing forms): steps of at most MAX_STEP_K, or coarser where that would pass
+    MAX_PATH_POINTS (a long zig-zag log). Above ``top_K`` the path keeps its own points."""
+    T = path.temperature_K
     below = np.minimum(T[:-1], T[1:]) < top_K
     change = np.where(below, np.abs(np.diff(T)), 0.0)
     step = max(MAX_STEP_K, float(change.sum()) / max(MAX_PATH_POINTS - change.size, 1))
-    pieces = np.maximum(np.ceil(change / step), 1).astype(int)
+    return np.maximum(np.ceil(change / step), 1).astype(int)
+
+
+def _refined(path, pieces):
+    """The path's times and temperatures with its steps cut into ``pieces`` (:func:`_pieces`)."""
+    t, T = path.time_s, path.temperature_K
     if np.all(pieces == 1):
         return t, T
     start = np.repeat(np.arange(t.size - 1), pieces)
@@ -348,12 +353,13 @@ def _rate_tables(p, grid):
 
 def _stack(paths, top_K):
     """Paths refined (:func:`_refined`) as (P, M) arrays of times and temperatures, each padded with
-    its last point (dt = 0); at most :data:`MAX_EVALUATION_POINTS` together."""
-    refined = [_refined(p, top_K) for p in paths]
-    m = max(t.size for t, _ in refined)
-    if len(refined) * m > MAX_EVALUATION_POINTS:
-        raise InputError(None, "path", f"{len(refined)} paths of up to {m} points make {len(refined) * m} points to "
+    its last point (dt = 0); at most :data:`MAX_EVALUATION_POINTS` together (counted before any is made)."""
+    pieces = [_pieces(p, top_K) for p in paths]
+    m = max(int(n.sum()) + 1 for n in pieces)
+    if len(paths) * m > MAX_EVALUATION_POINTS:
+        raise InputError(None, "path", f"{len(paths)} paths of up to {m} points make {len(paths) * m} points to "
                          f"evaluate, above the limit of {MAX_EVALUATION_POINTS}: give fewer or shorter paths")
+    refined = [_refined(p, n) for p, n in zip(paths, pieces)]
     t = np.array([np.pad(t, (0, m - t.size), mode="edge") for t, _ in refined])
     T = np.array([np.pad(T, (0, m - T.size), mode="edge") for _, T in refined])
     return t, T
