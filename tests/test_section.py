@@ -162,7 +162,9 @@ def test_a_higher_severity_never_cools_slower(severities, shape):
 
 
 def test_the_stepped_additivity_is_the_whole_path_additivity():
-    # the stepper follows compute.cooling.along step for step (Ms tabulated in carbon: to 1e-6)
+    # the stepper follows compute.cooling.along step for step: along integrates the rates exactly
+    # along each straight piece (tabulated over temperature), the stepper by the trapezoid rule
+    # in each step, so they agree to the trapezoid's error (under 5e-4 of the part here)
     steel = isokin.load_alloy(AISI_4140)
     paths = [newtonian(845.0, 60.0, tau) for tau in (3.0, 30.0, 300.0)]
     t, T, fractions, _ = along(steel, paths)
@@ -172,7 +174,7 @@ def test_the_stepped_additivity_is_the_whole_path_additivity():
         for name, v in state.step(T[:, k], t[:, k] - t[:, k - 1]).items():
             stepped[name].append(v)
     for name, v in fractions.items():
-        np.testing.assert_allclose(np.array(stepped[name]).T, v, atol=1e-6)
+        np.testing.assert_allclose(np.array(stepped[name]).T, v, atol=1e-3)
 
 
 def test_the_section_batch_is_the_sections_one_by_one():

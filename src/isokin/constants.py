@@ -9,6 +9,9 @@ PLANCK_J_S = 6.62607015e-34
 AVOGADRO_PER_MOL = 6.02214076e23
 GAS_CONSTANT_J_MOL_K = BOLTZMANN_J_K * AVOGADRO_PER_MOL
 ZERO_CELSIUS_K = 273.15
+#: The hottest temperature any input may give, °C: above the melting range of steels (pure iron
+#: melts at 1538 °C), so no heat treatment meets a hotter one.
+MAX_TEMPERATURE_C = 1600.0
 CALORIE_J = 4.184  # thermochemical calorie
 
 

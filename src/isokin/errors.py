@@ -145,3 +145,59 @@ def _shown(value, limit=40) -> str:
     """A value as a message shows it: its repr, shortened."""
     shown = repr(value) if isinstance(value, (str, bytes, int, float, bool, type(None))) else type(value).__name__
     return shown if len(shown) <= limit else shown[: limit - 3] + "..."
+
+
+# --- numbers within bounds: one check per kind of value (added for the cooling paths, issue 19) ---------
+
+
+def real_number(value):
+    """``value`` as a float where it is one real number (an int, a float or a numpy scalar; not a
+    bool, a string, an array of several or an int beyond any float), else None.
+
+    >>> real_number(3), real_number("3"), real_number(True)
+    (3.0, None, None)
+    """
+    import numbers
+
+    if isinstance(value, bool) or not (isinstance(value, numbers.Real) or getattr(value, "ndim", None) == 0):
+        return None
+    try:
+        return float(value)
+    except (TypeError, ValueError, OverflowError):
+        return None
+
+
+class Bounds:
+    """A kind of number and the range it may take, said once: ``rule`` completes "<key> ...".
+
+    The same instance checks one value (:meth:`check`) and whole arrays (:meth:`outside`),
+    so a command-line option, an API argument and a row of a file meet one rule.
+
+    >>> rate = Bounds(1e-4, 1e7, "must be a cooling rate from 1e-4 to 1e7 K/s", unit="K/s")
+    >>> rate.check("rate_K_s", 10)
+    10.0
+    >>> rate.check("rate_K_s", 0)
+    Traceback (most recent call last):
+    ...
+    isokin.errors.InputError: rate_K_s: must be a cooling rate from 1e-4 to 1e7 K/s, got 0.0 K/s
+    """
+
+    def __init__(self, low, high, rule, *, unit="", low_open=False):
+        self.low, self.high, self.rule, self.unit, self.low_open = low, high, rule, unit, low_open
+
+    def outside(self, values):
+        """Where ``values`` (numbers, any shape) break the rule: NaN and infinities always do."""
+        import numpy as np
+
+        v = np.asarray(values, dtype=float)
+        with np.errstate(invalid="ignore"):
+            inside = ((v > self.low) if self.low_open else (v >= self.low)) & (v <= self.high)
+        return ~inside
+
+    def check(self, key, value) -> float:
+        """``value`` as a float inside the range; InputError naming ``key`` otherwise."""
+        number = real_number(value)
+        if number is None or bool(self.outside(number)):
+            raise InputError(None, key, f"{self.rule}, got {value!r:.40}" if number is None else
+                             f"{self.rule}, got {number!r}{' ' if self.unit else ''}{self.unit}")
+        return number

@@ -17,15 +17,13 @@ from .temper import temper
 
 class _Command(typer.core.TyperCommand):
     """A command whose help shows no Python type names: the --help flag takes no value, and an
-    argument is shown by its placeholder alone (ALLOY.toml; a required one without braces)."""
+    argument is shown by its placeholder alone (ALLOY.toml)."""
 
     def __init__(self, *args, **kwargs):
         super().__init__(*args, **kwargs)
         for param in self.params:
             if param.param_type_name == "argument" and param.metavar:
                 param.display_type_rich = lambda ctx: ""
-                if param.required:
-                    param._usage_display_name = lambda name=param.metavar: name
 
     def get_help_option(self, ctx):
         option = super().get_help_option(ctx)

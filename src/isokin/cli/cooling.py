@@ -70,7 +70,7 @@ def cool(
     inline: Inline = None,
     rate: Annotated[Optional[list[float]], typer.Option("--rate", parser=decimal_number, metavar="K_PER_S",
                     help="Constant cooling rate, K/s; repeatable.")] = None,
-    log: Annotated[Optional[Path], typer.Option("--log", help="Measured log: CSV with time_s,temperature_C.")] = None,
+    log: Annotated[Optional[Path], typer.Option("--log", metavar="LOG.csv", help="Measured log: CSV with time_s,temperature_C.")] = None,
     medium_c: Annotated[Optional[float], typer.Option("--medium-c", parser=decimal_number, metavar="NUMBER",
                         help="Newtonian cooling toward this medium temperature, °C.")] = None,
     time_constant_s: Annotated[Optional[float], typer.Option("--time-constant-s", parser=decimal_number, metavar="NUMBER",
@@ -79,7 +79,7 @@ def cool(
                             help="Section thickness (plate) or diameter (bar, sphere), mm, for a lumped body.")] = None,
     htc: Annotated[Optional[float], typer.Option("--htc", parser=decimal_number, metavar="W_PER_M2K",
                    help="Heat-transfer coefficient of the quench, W/(m2 K), with --thickness-mm.")] = None,
-    shape: Annotated[str, typer.Option("--shape", help="plate, bar or sphere, with --thickness-mm.")] = "plate",
+    shape: Annotated[str, typer.Option("--shape", metavar="plate|bar|sphere", help="plate, bar or sphere, with --thickness-mm.")] = "plate",
     start_c: Annotated[Optional[float], typer.Option("--start-c", parser=decimal_number, metavar="NUMBER",
                        help="Start of cooling, °C (default the austenitizing temperature, else the highest "
                             "temperature where a product forms).")] = None,
@@ -107,7 +107,7 @@ def cool(
             raise InputError(None, "--rate", "give one kind of path: --rate, --log, or --medium-c with "
                              "--time-constant-s or --thickness-mm and --htc")
         if rate:
-            path = [C.constant_rate(r, start) for r in rate]
+            path = C.constant_rates(rate, start)
         elif log is not None:
             from ..io.tables import read_cooling_log
 
@@ -122,7 +122,7 @@ def cool(
         status("following the cooling path")
         result = C.cool(alloy, path)
         isothermal = ttt(alloy)
-        continuous = C.cct(alloy, start_C=start) if alloy.model == "steel" else None
+        continuous = C.cct_beneath(alloy, start)
 
         def draw():
             from ..plot.cct import plot_cooling, report_figure
@@ -146,6 +146,7 @@ def cool(
             out / f"{stem}-cool-summary.json": lambda p: write_json(cooling_summary(result), p)})
 
     keys = {"end_C": "--medium-c", "path": "--medium-c"} if medium_c is not None else {"path": "--log"}
+    keys["rates_K_s"] = "--rate"
     run(lambda: load(alloy_file, inline), solve, overwrite=overwrite, keys=keys)
 
 

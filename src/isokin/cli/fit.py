@@ -15,8 +15,10 @@ from .status import status
 
 
 def fit(
-    data_file: Annotated[Path, typer.Argument(metavar="MEASUREMENTS.csv", help="Measurements (CSV): temperature_C,time_s,fraction or "
-                                              "temperature_C,start_time_s,finish_time_s [,product].")],
+    data_file: Annotated[Optional[Path], typer.Argument(metavar="MEASUREMENTS.csv", show_default=False,
+                                                        help="Measurements (CSV): temperature_C,time_s,fraction or "
+                                                             "temperature_C,start_time_s,finish_time_s "
+                                                             "[,product].")] = None,
     alloy_file: Annotated[Optional[Path], typer.Option("--alloy", metavar="ALLOY.toml", help="The alloy file to calibrate.")] = None,
     out: Annotated[Optional[Path], typer.Option("--out", metavar="FILE.toml", help="The calibrated alloy file to write (never the "
                                                 "input).")] = None,
@@ -41,6 +43,9 @@ def fit(
     def load():
         from ..io.alloy_file import load_alloy
 
+        if data_file is None:
+            raise InputError(None, "MEASUREMENTS.csv", "name the measurements to fit, e.g. isokin fit holds.csv --alloy "
+                             "alloys/my-steel.toml --out my-steel-calibrated.toml")
         if alloy_file is None:
             raise InputError(None, "--alloy", "name the alloy file to calibrate, e.g. --alloy alloys/my-steel.toml")
         if out is None:

@@ -59,15 +59,15 @@ def plan(
     quench_rate: Annotated[Optional[float], typer.Option("--quench-rate", parser=decimal_number, metavar="K_PER_S",
                            help="Quench and temper: the quench as a constant rate, K/s, to check it hardens the "
                                 "part (without it the part is taken as fully hardened).")] = None,
-    allow_embrittlement: Annotated[bool, typer.Option("--allow-embrittlement", help="Quench and temper: let tempers "
+    allow_embrittlement: Annotated[bool, typer.Option("--allow-embrittlement", metavar="", help="Quench and temper: let tempers "
                                    "in the embrittlement range (250-400 °C) count.")] = False,
     thickness_mm: Annotated[Optional[float], typer.Option("--thickness-mm", parser=decimal_number, metavar="NUMBER",
                             help="Interrupted quench: section thickness, mm, for the equalizing time.")] = None,
     htc: Annotated[Optional[float], typer.Option("--htc", parser=decimal_number, metavar="W_PER_M2K",
                    help="Interrupted quench: heat-transfer coefficient of the bath, W/(m2 K).")] = None,
-    xlsx: Annotated[bool, typer.Option("--xlsx", help="Also write <stem>-plan.xlsx (plan, summary, curves).")] = False,
-    worst_case: Annotated[bool, typer.Option("--worst-case", help="Plan on every heat of the composition range "
-                                             "([composition_range] or --range), not the nominal.")] = False,
+    xlsx: Annotated[bool, typer.Option("--xlsx", metavar="", help="Also write <stem>-plan.xlsx (plan, summary, curves).")] = False,
+    worst_case: Annotated[bool, typer.Option("--worst-case", metavar="", help="Plan on every heat of the composition range "
+                                             "(the file's composition_range table, or --range), not the nominal.")] = False,
     range_text: RangeOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,

@@ -21,13 +21,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..constants import celsius_to_kelvin, kelvin_to_celsius
-from ..errors import InputError
+from ..constants import MAX_TEMPERATURE_C, ZERO_CELSIUS_K, celsius_to_kelvin, kelvin_to_celsius
+from ..errors import Bounds, InputError, real_number
 from ..relations.hardness import hardness_of_mixture
 from ..results import OVERALL, CCTResult, CoolingResult
 from .decomposition import WAIT_FRACTION
 
-#: Steps of a constructed path: temperature steps of at most this, K.
+#: Steps of a path where products can form: temperature steps of at most this, K (coarser only
+#: where a log would pass MAX_PATH_POINTS; the products' sums do not hang on the step, see along).
 MAX_STEP_K = 0.5
 #: Default family of constant rates for the CCT diagram, K/s: the 1-2-5 series from 0.01 to 1000.
 DEFAULT_RATES_K_S = tuple(m * 10.0**e for e in range(-2, 3) for m in (1.0, 2.0, 5.0)) + (1000.0,)
@@ -39,6 +40,43 @@ FINISH_SHARE = 0.99
 LUMPED_BIOT_LIMIT = 0.1
 #: Temperature at which the cooling rate of the hardness relations is taken, °C.
 HARDNESS_RATE_AT_C = 700.0
+
+# --- what a cooling path may be: one rule per kind of value, for the API and the command line alike.
+# The limits keep every run within seconds and well under 1 GB (benchmarks/bench_limits_cooling.py).
+
+#: Temperatures of a path (start, end, medium, rows of a log): above absolute zero and at most
+#: 1600 °C, above the melting range of every steel (pure iron melts at 1538 °C; common practice).
+TEMPERATURE_C = Bounds(-ZERO_CELSIUS_K, MAX_TEMPERATURE_C, f"must be a temperature above {-ZERO_CELSIUS_K:g} °C "
+                       f"(absolute zero) and at most {MAX_TEMPERATURE_C:g} °C (above the melting range of steels)",
+                       unit="°C", low_open=True)
+#: Constant cooling rates and the fastest change a log may show: from furnace cooling of a large
+#: forging (0.36 K/h) to splat quenching (common practice, from memory).
+RATE_K_S = Bounds(1e-4, 1e7, "must be a cooling rate from 0.0001 K/s (0.36 K/h, furnace cooling) to 1e+07 K/s "
+                  "(splat quenching)", unit="K/s")
+#: Newtonian time constants: from a fine droplet in gas to a furnace-cooled ingot (about 4 months).
+TIME_CONSTANT_S = Bounds(1e-4, 1e7, "must be a Newtonian time constant from 0.0001 s to 1e+07 s", unit="s")
+#: A lumped section's size and heat transfer; its properties (the defaults are steel's).
+SECTION = {
+    "thickness_m": Bounds(1e-6, 10.0, "must be a positive section thickness or diameter, from 1e-06 m to 10 m "
+                          "(0.001 mm to 10 m)", unit="m"),
+    "heat_transfer_W_m2K": Bounds(1.0, 1e6, "must be a positive heat-transfer coefficient, from 1 to 1e+06 W/(m2 K) "
+                                  "(still air about 10, agitated water about 1e4; common practice)", unit="W/(m2 K)"),
+    "density_kg_m3": Bounds(100.0, 30000.0, "must be a density from 100 to 30000 kg/m3", unit="kg/m3"),
+    "heat_capacity_J_kgK": Bounds(10.0, 10000.0, "must be a specific heat from 10 to 10000 J/(kg K)", unit="J/(kg K)"),
+    "conductivity_W_mK": Bounds(0.01, 5000.0, "must be a thermal conductivity from 0.01 to 5000 W/(m K)",
+                                unit="W/(m K)"),
+}
+#: Most cooling rates in one run: the rates of a CCT diagram, the --rate options of a cooling (a
+#: call from Python may take more paths, up to MAX_EVALUATION_POINTS together).
+MAX_RATES = 60
+#: Most rows of a cooling log (a 10 Hz thermocouple for well over two hours), and its longest span
+#: (about 32 years, where the diagrams stop too).
+MAX_LOG_ROWS = 100_000
+MAX_LOG_SPAN_S = 1e9
+#: Most points of one path after refinement, and of all paths of one call together (paths ×
+#: longest path): the memory of a call grows with them, about 0.4 kB a point.
+MAX_PATH_POINTS = 250_000
+MAX_EVALUATION_POINTS = 1_000_000
 
 
 class CoolingPath:
@@ -62,15 +100,26 @@ class CoolingPath:
         return float(max(dT, 0.0) / dt * 3600.0) if dt > 0 else 0.0
 
 
-def _refine(time_s, temperature_K, max_step_K=MAX_STEP_K):
-    """The path with linear points inserted so that no step changes T by more than max_step_K."""
-    t, T = np.asarray(time_s, dtype=float), np.asarray(temperature_K, dtype=float)
-    pieces = np.maximum(np.ceil(np.abs(np.diff(T)) / max_step_K), 1).astype(int)
+def _pieces(path, top_K):
+    """Into how many pieces each step of the path is cut where it can run below ``top_K`` (above
+    it nothing forms): steps of at most MAX_STEP_K, or coarser where that would pass
+    MAX_PATH_POINTS (a long zig-zag log). Above ``top_K`` the path keeps its own points."""
+    T = path.temperature_K
+    below = np.minimum(T[:-1], T[1:]) < top_K
+    change = np.where(below, np.abs(np.diff(T)), 0.0)
+    step = max(MAX_STEP_K, float(change.sum()) / max(MAX_PATH_POINTS - change.size, 1))
+    return np.maximum(np.ceil(change / step), 1).astype(int)
+
+
+def _refined(path, pieces):
+    """The path's times and temperatures with its steps cut into ``pieces`` (:func:`_pieces`)."""
+    t, T = path.time_s, path.temperature_K
+    if np.all(pieces == 1):
+        return t, T
     start = np.repeat(np.arange(t.size - 1), pieces)
-    offset = np.concatenate([np.arange(n) / n for n in pieces]) if pieces.size else np.array([])
-    t_new = np.append(t[start] + offset * (t[start + 1] - t[start]), t[-1])
-    T_new = np.append(T[start] + offset * (T[start + 1] - T[start]), T[-1])
-    return t_new, T_new
+    offset = (np.arange(start.size) - np.repeat(np.cumsum(pieces) - pieces, pieces)) / np.repeat(pieces, pieces)
+    return (np.append(t[start] + offset * (t[start + 1] - t[start]), t[-1]),
+            np.append(T[start] + offset * (T[start + 1] - T[start]), T[-1]))
 
 
 def formation_top_C(alloy) -> float:
@@ -85,16 +134,48 @@ def default_start_C(alloy) -> float:
     return float(given) if given is not None else formation_top_C(alloy)
 
 
+def _start_and_end(start_C, end_C):
+    """Start and end temperatures of a cooling, °C, each within :data:`TEMPERATURE_C` and the end below the start."""
+    start, end = TEMPERATURE_C.check("start_C", start_C), TEMPERATURE_C.check("end_C", end_C)
+    if not end < start:
+        raise InputError(None, "start_C", f"{start:g} °C must lie above the end of cooling, {end:g} °C")
+    return start, end
+
+
 def constant_rate(rate_K_s, start_C, end_C=20.0):
-    """Cooling at a constant rate from start_C to end_C."""
-    rate = float(rate_K_s)
-    if not (np.isfinite(rate) and rate > 0):
-        raise InputError(None, "rate_K_s", f"must be a positive finite cooling rate in K/s, got {rate_K_s!r}")
-    if not end_C < start_C:
-        raise InputError(None, "end_C", f"{end_C:g} °C must lie below the start temperature, {start_C:g} °C")
-    T = np.linspace(celsius_to_kelvin(start_C), celsius_to_kelvin(end_C),
-                    int(np.ceil((start_C - end_C) / MAX_STEP_K)) + 1)
+    """Cooling at a constant rate (K/s, within :data:`RATE_K_S`) from start_C to end_C (°C, within
+    :data:`TEMPERATURE_C`).
+
+    >>> path = constant_rate(10.0, 845.0)
+    >>> round(float(path.time_s[-1]), 9)
+    82.5
+    """
+    rate = RATE_K_S.check("rate_K_s", rate_K_s)
+    start, end = _start_and_end(start_C, end_C)
+    T = np.linspace(celsius_to_kelvin(start), celsius_to_kelvin(end), int(np.ceil((start - end) / MAX_STEP_K)) + 1)
     return CoolingPath((T[0] - T) / rate, T, f"{rate:g} K/s")
+
+
+def constant_rates(rates_K_s, start_C, end_C=20.0):
+    """One :func:`constant_rate` path per rate, in the order given: one to :data:`MAX_RATES` rates."""
+    return [constant_rate(rate, start_C, end_C) for rate in _rates(rates_K_s)]
+
+
+def _rates(rates_K_s):
+    """One to :data:`MAX_RATES` cooling rates, each within :data:`RATE_K_S`, as floats (key ``rates_K_s``)."""
+    if isinstance(rates_K_s, str):
+        rates = []
+    elif real_number(rates_K_s) is not None:
+        rates = [rates_K_s]
+    else:
+        try:
+            rates = list(rates_K_s)
+        except TypeError:
+            rates = []
+    if not 1 <= len(rates) <= MAX_RATES:
+        raise InputError(None, "rates_K_s", f"give from 1 to {MAX_RATES} cooling rates in K/s, got "
+                         f"{len(rates) if rates else repr(rates_K_s)}")
+    return [RATE_K_S.check("rates_K_s", rate) for rate in rates]
 
 
 #: Volume per cooled area of each lumped shape, per unit of its size (thickness or diameter).
@@ -107,46 +188,57 @@ def lumped_time_constant(thickness_m, heat_transfer_W_m2K, density_kg_m3=7850.0,
 
     ``shape``: "plate" (thickness, cooled on both faces, V/A = L/2), "bar" (diameter, V/A = D/4)
     or "sphere" (diameter, V/A = D/6). Defaults for carbon and low-alloy steel near 700 °C
-    are common practice: 7850 kg/m^3, 600 J/(kg K), 30 W/(m K).
+    are common practice: 7850 kg/m^3, 600 J/(kg K), 30 W/(m K). Each value lies within its
+    :data:`SECTION` range.
 
     >>> tau, biot = lumped_time_constant(0.01, 500.0)
     >>> round(tau, 1), round(biot, 3)
     (47.1, 0.083)
     """
-    if shape not in _VOLUME_PER_AREA:
+    if not isinstance(shape, str) or shape not in _VOLUME_PER_AREA:
         raise InputError(None, "shape", f"must be plate, bar or sphere, got {shape!r}")
-    for key, value in (("thickness_m", thickness_m), ("heat_transfer_W_m2K", heat_transfer_W_m2K),
-                       ("density_kg_m3", density_kg_m3), ("heat_capacity_J_kgK", heat_capacity_J_kgK),
-                       ("conductivity_W_mK", conductivity_W_mK)):
-        try:
-            positive = bool(np.isfinite(float(value)) and float(value) > 0.0)
-        except (TypeError, ValueError):
-            positive = False
-        if not positive:
-            raise InputError(None, key, "must be a positive number")
-    ratio = _VOLUME_PER_AREA[shape] * thickness_m
-    return density_kg_m3 * heat_capacity_J_kgK * ratio / heat_transfer_W_m2K, heat_transfer_W_m2K * ratio / conductivity_W_mK
+    given = {"thickness_m": thickness_m, "heat_transfer_W_m2K": heat_transfer_W_m2K, "density_kg_m3": density_kg_m3,
+             "heat_capacity_J_kgK": heat_capacity_J_kgK, "conductivity_W_mK": conductivity_W_mK}
+    size, h, rho, c, k = (SECTION[key].check(key, value) for key, value in given.items())
+    ratio = _VOLUME_PER_AREA[shape] * size
+    return rho * c * ratio / h, h * ratio / k
 
 
 def newtonian(start_C, medium_C, time_constant_s, end_C=None, label=None, warnings=()):
     """Newtonian cooling toward a medium: T = Tm + (T0 - Tm) exp(-t / tau), down to end_C
-    (default 1 K above the medium)."""
-    tau = float(time_constant_s)
-    if not (np.isfinite(tau) and tau > 0):
-        raise InputError(None, "time_constant_s", f"must be a positive finite time in s, got {time_constant_s!r}")
-    if not medium_C < start_C:
-        raise InputError(None, "medium_C", "must lie below the start temperature")
-    end = medium_C + 1.0 if end_C is None else end_C
-    if not medium_C < end < start_C:
-        raise InputError(None, "end_C", "must lie between the medium and the start temperature")
-    T_C = np.linspace(start_C, end, int(np.ceil((start_C - end) / MAX_STEP_K)) + 1)
-    t = -tau * np.log((T_C - medium_C) / (start_C - medium_C))
-    return CoolingPath(t, celsius_to_kelvin(T_C), label or f"Newtonian, tau {tau:g} s to {medium_C:g} °C", warnings)
+    (default 1 K above the medium). Temperatures within :data:`TEMPERATURE_C`, tau within
+    :data:`TIME_CONSTANT_S`.
+
+    >>> path = newtonian(845.0, 60.0, 20.0)
+    >>> round(float(path.temperature_K[-1]) - 273.15, 6)
+    61.0
+    """
+    tau = TIME_CONSTANT_S.check("time_constant_s", time_constant_s)
+    medium = TEMPERATURE_C.check("medium_C", medium_C)
+    start = TEMPERATURE_C.check("start_C", start_C)
+    if not medium < start:
+        raise InputError(None, "medium_C", f"{medium:g} °C must lie below the start temperature, {start:g} °C")
+    end = medium + 1.0 if end_C is None else TEMPERATURE_C.check("end_C", end_C)
+    if not medium < end < start:
+        raise InputError(None, "end_C", f"{end:g} °C must lie between the medium, {medium:g} °C, and the start "
+                         f"temperature, {start:g} °C")
+    T_C = np.linspace(start, end, int(np.ceil((start - end) / MAX_STEP_K)) + 1)
+    t = -tau * np.log((T_C - medium) / (start - medium))
+    return CoolingPath(t, celsius_to_kelvin(T_C), label or f"Newtonian, tau {tau:g} s to {medium:g} °C", warnings)
 
 
 def newtonian_section(start_C, medium_C, thickness_m, heat_transfer_W_m2K, shape="plate", **properties):
-    """Newtonian cooling of a lumped section, with a warning where its Biot number is too high."""
+    """Newtonian cooling of a lumped section, with a warning where its Biot number is too high.
+
+    >>> path = newtonian_section(845.0, 60.0, 0.025, 1500.0, shape="bar")
+    >>> path.label
+    'bar 25 mm, h 1500 W/m2K'
+    """
     tau, biot = lumped_time_constant(thickness_m, heat_transfer_W_m2K, shape=shape, **properties)
+    if TIME_CONSTANT_S.outside(tau):
+        raise InputError(None, "thickness_m", f"a {shape} of {thickness_m * 1e3:g} mm with a heat-transfer coefficient "
+                         f"of {heat_transfer_W_m2K:g} W/(m2 K) has a lumped time constant of {tau:.3g} s, outside "
+                         f"{TIME_CONSTANT_S.low:g} to {TIME_CONSTANT_S.high:g} s")
     notes = []
     if biot > LUMPED_BIOT_LIMIT:
         notes.append(f"the Biot number of this section is {biot:.2g}, above {LUMPED_BIOT_LIMIT:g}: the core cools "
@@ -155,34 +247,126 @@ def newtonian_section(start_C, medium_C, thickness_m, heat_transfer_W_m2K, shape
                      warnings=notes)
 
 
-def measured(time_s, temperature_C, label="measured log"):
-    """A logged path: sorted by time, repeated times averaged, refined between the samples.
+def _numbers(key, values):
+    """``values`` as a 1-D float array; InputError naming ``key`` where they are not numbers."""
+    try:
+        array = np.asarray(values, dtype=float)
+    except (TypeError, ValueError):
+        array = None
+    if array is None or array.ndim != 1 or (array.size and np.asarray(values).dtype.kind not in "iuf"):
+        raise InputError(None, key, "must be a sequence of plain numbers")
+    return array
 
-    A log that reheats midway is kept as it is (additivity simply adds less where it is
-    hotter); the path starts at its first sample.
+
+def measured(time_s, temperature_C, label="measured log"):
+    """A logged path: sorted by time, repeated times averaged.
+
+    At most :data:`MAX_LOG_ROWS` samples, finite times spanning at most :data:`MAX_LOG_SPAN_S`,
+    temperatures within :data:`TEMPERATURE_C`, and no change between samples faster than the
+    fastest rate of :data:`RATE_K_S`. A log that reheats midway is kept as it is (additivity
+    simply adds less where it is hotter); the path starts at its first sample.
+
+    >>> path = measured([0, 10, 5], [845, 300, 600])
+    >>> path.time_s.tolist(), (path.temperature_K - 273.15).round(6).tolist()
+    ([0.0, 5.0, 10.0], [845.0, 600.0, 300.0])
     """
-    t = np.asarray(time_s, dtype=float)
-    T = np.asarray(temperature_C, dtype=float)
+    t, T = _numbers("time_s", time_s), _numbers("temperature_C", temperature_C)
+    if t.size != T.size:
+        raise InputError(None, "temperature_C", f"has {T.size} values for {t.size} times; give one temperature "
+                         "per time")
+    if t.size > MAX_LOG_ROWS:
+        raise InputError(None, "time_s", f"has {t.size} samples; the limit is {MAX_LOG_ROWS}")
+    for key, bad in (("time_s", ~np.isfinite(t)), ("temperature_C", TEMPERATURE_C.outside(T))):
+        if bad.any():
+            k = int(np.argmax(bad))
+            rule = "must be finite times in s" if key == "time_s" else TEMPERATURE_C.rule
+            got = f"{t[k]:g} s" if key == "time_s" else f"{T[k]:g} °C"
+            raise InputError(None, key, f"{rule}, got {got} (value {k}, counting from 0)")
+    with np.errstate(over="ignore"):
+        span = float(t.max() - t.min()) if t.size else 0.0
+    if span > MAX_LOG_SPAN_S:
+        raise InputError(None, "time_s", f"spans {span:g} s; a log may span at most {MAX_LOG_SPAN_S:g} s")
     order = np.argsort(t, kind="stable")
     t, T = t[order], T[order]
     unique, index, counts = np.unique(t, return_inverse=True, return_counts=True)
     T = np.bincount(index, weights=T) / counts
     if unique.size < 2:
-        raise InputError(None, "log", "needs at least two distinct times")
-    t_fine, T_fine = _refine(unique - unique[0], celsius_to_kelvin(T))
-    return CoolingPath(t_fine, T_fine, label)
+        raise InputError(None, "time_s", "needs at least two rows with distinct times")
+    with np.errstate(over="ignore"):
+        speed = np.abs(np.diff(T)) / np.diff(unique)
+    if np.any(speed > RATE_K_S.high):
+        k = int(np.argmax(speed))
+        raise InputError(None, "temperature_C", f"changes by {abs(T[k + 1] - T[k]):g} K in "
+                         f"{unique[k + 1] - unique[k]:g} s after {unique[k]:g} s, faster than {RATE_K_S.high:g} K/s, "
+                         "the fastest cooling taken")
+    return CoolingPath(unique - unique[0], celsius_to_kelvin(T), label)
 
 
-def _stack(paths):
-    """Paths of different lengths as (P, M) arrays, each padded with its last point (dt = 0)."""
-    m = max(p.time_s.size for p in paths)
-    t = np.array([np.pad(p.time_s, (0, m - p.time_s.size), mode="edge") for p in paths])
-    T = np.array([np.pad(p.temperature_K, (0, m - p.temperature_K.size), mode="edge") for p in paths])
+class _Tabulated:
+    """A rate r(T), 1/s, tabulated on a fine temperature grid, with its integral over T: the
+    integral of r(T(t)) dt over a linear piece of a path is then read off, exactly for the
+    tabulated rate, however long the piece (wide pieces by the integral, narrow ones by
+    Simpson's rule on the table)."""
+
+    def __init__(self, grid, values):
+        self.grid, self.values = grid, values
+        self.integral = np.concatenate([[0.0], np.cumsum(0.5 * (values[1:] + values[:-1]) * np.diff(grid))])
+
+    def over_steps(self, t, T):
+        """The integral over each step of the paths (P, M): (P, M - 1)."""
+        dT = np.diff(T, axis=-1)
+        wide = np.abs(dT) > MAX_STEP_K
+        G = np.interp(T, self.grid, self.integral)
+        with np.errstate(divide="ignore", invalid="ignore"):
+            by_integral = (G[..., 1:] - G[..., :-1]) / dT
+
+        def r(x):
+            return np.interp(x, self.grid, self.values, left=0.0, right=0.0)
+
+        by_simpson = (r(T[..., :-1]) + 4.0 * r(0.5 * (T[..., :-1] + T[..., 1:])) + r(T[..., 1:])) / 6.0
+        return np.diff(t, axis=-1) * np.where(wide, by_integral, by_simpson)
+
+
+#: Points of the temperature tables of the products' rates (over their range: under 0.25 K apart).
+TABLE_POINTS = 8001
+
+
+def _table_grid(alloy):
+    """Temperatures of the rate tables, K: from the lowest at which any product forms (but 1 K at
+    the least: nothing forms that close to absolute zero) to the highest."""
+    low = max(min(float(np.min(p.lower_K)) for p in alloy.products), 1.0)
+    return np.linspace(low, max(float(np.max(p.upper_K)) for p in alloy.products), TABLE_POINTS)
+
+
+def _rate_tables(p, grid):
+    """The product's isokinetic speed 1/F(T) and Scheil's incubation rate 1/tau(T) as
+    :class:`_Tabulated` (the second None where it has no incubation)."""
+    with np.errstate(divide="ignore"):
+        factor, incubation = p.time_factor(grid), p.incubation_s(grid)
+    forms = np.isfinite(factor) & (factor > 0)
+    speed = np.where(forms, 1.0 / np.where(forms, factor, 1.0), 0.0)
+    waits = forms & (incubation > 0)
+    scheil = np.where(waits, 1.0 / np.where(waits, incubation, 1.0), 0.0)
+    return _Tabulated(grid, speed), (_Tabulated(grid, scheil) if np.any(incubation > 0) else None)
+
+
+def _stack(paths, top_K):
+    """Paths refined (:func:`_refined`) as (P, M) arrays of times and temperatures, each padded with
+    its last point (dt = 0); at most :data:`MAX_EVALUATION_POINTS` together (counted before any is made)."""
+    pieces = [_pieces(p, top_K) for p in paths]
+    m = max(int(n.sum()) + 1 for n in pieces)
+    if len(paths) * m > MAX_EVALUATION_POINTS:
+        raise InputError(None, "path", f"{len(paths)} paths of up to {m} points make {len(paths) * m} points to "
+                         f"evaluate, above the limit of {MAX_EVALUATION_POINTS}: give fewer or shorter paths")
+    refined = [_refined(p, n) for p, n in zip(paths, pieces)]
+    t = np.array([np.pad(t, (0, m - t.size), mode="edge") for t, _ in refined])
+    T = np.array([np.pad(T, (0, m - T.size), mode="edge") for _, T in refined])
     return t, T
 
 
-def _trapezoid_increments(rate, dt):
-    return 0.5 * (rate[..., :-1] + rate[..., 1:]) * dt
+def _from_zero(increments):
+    """Running sums along the last axis that start at 0 at the first point."""
+    return np.concatenate([np.zeros(increments.shape[:-1] + (1,)), np.cumsum(increments, axis=-1)], axis=-1)
 
 
 def _running(values, op):
@@ -191,11 +375,15 @@ def _running(values, op):
 
 def along(alloy, paths):
     """Fractions of every phase along each path: (t, T, dict phase -> (P, M) array, carbon),
-    with ``carbon`` the (P, M) carbon of the austenite left (mass %, steels; else None)."""
+    with ``carbon`` the (P, M) carbon of the austenite left (mass %, steels; else None).
+
+    The paths are refined where products can form (:func:`_refined`); each product's sums over
+    a step are the exact integrals of its tabulated rates along that step (:class:`_Tabulated`),
+    so a coarser step moves only where a product is seen to start, not how far it has got."""
     if alloy.batch_shape:
         raise InputError(None, "alloy", "continuous cooling takes one alloy, not a batch")
-    t, T = _stack(paths)
-    dt = np.diff(t, axis=-1)
+    grid = _table_grid(alloy)
+    t, T = _stack(paths, grid[-1])
     own, sums = {}, {}
     products = list(alloy.products)
     by_name = {p.name: p for p in products}
@@ -203,23 +391,15 @@ def along(alloy, paths):
     for p in (by_name[name] for name in order):
         factor = p.time_factor(T)
         forms = np.isfinite(factor) & (factor > 0)
-        with np.errstate(divide="ignore"):
-            speed = np.where(forms, 1.0 / np.where(forms, factor, 1.0), 0.0)
-            incubation = p.incubation_s(T)
-            scheil_rate = np.where(forms & (incubation > 0), 1.0 / np.where(incubation > 0, incubation, 1.0), 0.0)
-        started = np.ones(T.shape, dtype=bool)
-        if np.any(incubation > 0):
-            scheil = np.concatenate([np.zeros(T.shape[:-1] + (1,)), np.cumsum(_trapezoid_increments(scheil_rate, dt),
-                                                                                axis=-1)], axis=-1)
-            started = (scheil >= 1.0) | ~np.any(incubation > 0)
+        speed, scheil = _rate_tables(p, grid)
+        started = np.ones(T.shape, dtype=bool) if scheil is None else _from_zero(scheil.over_steps(t, T)) >= 1.0
         waits_for = alloy.sequence.get(p.name)
         if waits_for is not None:
             w = by_name[waits_for]
             # once the other has reached its wait fraction, for good; and wherever it cannot form at all
             done = _running(sums[waits_for] >= float(w.reaction_term(WAIT_FRACTION)), np.logical_or)
             started = started & (done | ~(np.isfinite(w.time_factor(T)) & (w.equilibrium_fraction(T) > 0.0)))
-        increments = _trapezoid_increments(speed, dt) * started[..., 1:]
-        sums[p.name] = np.concatenate([np.zeros(T.shape[:-1] + (1,)), np.cumsum(increments, axis=-1)], axis=-1)
+        sums[p.name] = _from_zero(speed.over_steps(t, T) * started[..., 1:])
         s_end = float(p.reaction_term(1.0))
         x = p.reaction_term_inverse(np.minimum(sums[p.name], s_end) if np.isfinite(s_end) else sums[p.name])
         cap = _running(np.where(forms, p.equilibrium_fraction(T), 0.0), np.maximum)
@@ -235,8 +415,7 @@ def along(alloy, paths):
         for other, b in own.items():
             if other != name:
                 others = others * (1.0 - b)
-        step = 0.5 * (others[..., :-1] + others[..., 1:]) * np.diff(a, axis=-1)
-        raw[name] = np.concatenate([np.zeros(T.shape[:-1] + (1,)), np.cumsum(step, axis=-1)], axis=-1)
+        raw[name] = _from_zero(0.5 * (others[..., :-1] + others[..., 1:]) * np.diff(a, axis=-1))
     summed = sum(raw.values())
     with np.errstate(divide="ignore", invalid="ignore"):
         scale = np.where(summed > 0.0, total / summed, 0.0)
@@ -304,7 +483,19 @@ def first_reached(t, T, values, level):
 
 
 def _path_list(path):
-    return list(path) if isinstance(path, (list, tuple)) else [path]
+    """``path`` as a list of one or more cooling paths (their number is bounded by the points they
+    make together, :data:`MAX_EVALUATION_POINTS`); InputError otherwise."""
+    paths = list(path) if isinstance(path, (list, tuple)) else [path]
+    if not paths:
+        raise InputError(None, "path", "give one or more cooling paths, got none")
+    for item in paths:
+        try:
+            item.time_s, item.temperature_K, item.label, item.warnings  # noqa: B018 (a path has these)
+        except AttributeError:
+            raise InputError(None, "path", "must be a cooling path from isokin.constant_rate, newtonian, "
+                             f"newtonian_section, measured or read_cooling_log (or a list of them), got "
+                             f"{item!r:.60}") from None
+    return paths
 
 
 def cool(alloy, path):
@@ -378,15 +569,9 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
         product and of the whole decomposition, the final fractions and hardness, and the
         critical cooling rates.
     """
-    rates = np.asarray(DEFAULT_RATES_K_S if rates_K_s is None else rates_K_s, dtype=float).ravel()
-    if rates.size < 1 or not np.all(np.isfinite(rates) & (rates > 0)):
-        raise InputError(None, "rates_K_s", "give one or more positive finite cooling rates in K/s")
-    if rates.size > MAX_RATES:
-        raise InputError(None, "rates_K_s", f"at most {MAX_RATES} rates in one diagram, got {rates.size}")
-    rates = np.sort(rates)
-    start = formation_top_C(alloy) if start_C is None else float(start_C)
-    paths = [constant_rate(r, start, end_C) for r in rates]
-    result = cool(alloy, paths)
+    start, end = _start_and_end(formation_top_C(alloy) if start_C is None else start_C, end_C)
+    rates = np.sort(_rates(DEFAULT_RATES_K_S if rates_K_s is None else rates_K_s))
+    result = cool(alloy, [constant_rate(r, start, end) for r in rates])
     t, T, f = result.time_s, result.temperature_K, result.fractions
     curves = {}
     names = [p.name for p in alloy.products]
@@ -397,13 +582,20 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
         start_t, start_T = first_reached(t, T, values, START_SHARE)
         finish_t, finish_T = first_reached(t, T, values, np.where(final >= START_SHARE, FINISH_SHARE * final, 0.0))
         curves[name] = {"start": (start_t, start_T), "finish": (finish_t, finish_T)}
-    critical = critical_rates(alloy, start, end_C)
+    critical = critical_rates(alloy, start, end)
     return CCTResult(alloy=alloy.name, rates_K_s=rates, start_C=start, cooling=result, curves=curves,
                      critical_rates=critical, critical_K=dict(alloy.critical_K))
 
 
-#: Most rates in one CCT diagram.
-MAX_RATES = 60
+def cct_beneath(alloy, start_C):
+    """The CCT diagram a cooling figure draws beneath a path that starts at start_C, °C: a
+    steel's default family of rates from there; None for another alloy, or where the path
+    starts at or below 20 °C, the end of those rates."""
+    if alloy.model != "steel" or not start_C > 20.0:
+        return None
+    return cct(alloy, start_C=start_C)
+
+
 #: Critical rates are found to this ratio (0.5 % of the rate).
 RATE_TOLERANCE = 1.005
 

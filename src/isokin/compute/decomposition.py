@@ -27,7 +27,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..constants import celsius_to_kelvin
+from ..constants import MAX_TEMPERATURE_C, ZERO_CELSIUS_K, celsius_to_kelvin
 from ..errors import InputError, number, numbers
 from ..products.alloy import check_alloy
 from ..products.base import as_query, batch_leading, writeable
@@ -430,9 +430,9 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
     1.0
     """
     check_alloy(alloy)
-    T_C = numbers("temperature_C", temperature_C, -273.15, low_open=True, unit="°C")
+    T_C = numbers("temperature_C", temperature_C, -ZERO_CELSIUS_K, MAX_TEMPERATURE_C, low_open=True, unit="°C")
     t = numbers("time_s", time_s, 0.0, unit="s")
-    number("quench_to_C", quench_to_C, -273.15, low_open=True, unit="°C")
+    number("quench_to_C", quench_to_C, -ZERO_CELSIUS_K, MAX_TEMPERATURE_C, low_open=True, unit="°C")
     try:
         T_C, t = np.broadcast_arrays(T_C, t)
     except ValueError:

@@ -8,7 +8,7 @@ from pathlib import Path
 
 import numpy as np
 
-from ..compute.cooling import measured
+from ..compute.cooling import TEMPERATURE_C, measured
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..relations.driving_force import DrivingForceTable
@@ -69,29 +69,28 @@ def read_driving_force_table(source, where, path: Path) -> DrivingForceTable:
 
 
 LOG_COLUMNS = ("time_s", "temperature_C")
-#: A thermocouple log longer than this is refused: far more than any quench or furnace cycle.
-MAX_LOG_ROWS = 200_000
 
 
 def read_cooling_log(path: Path, source=None, key="log"):
     """A logged cooling path from a CSV with columns time_s, temperature_C (others ignored).
 
     Rows may come in any order and repeat a time (they are averaged); blank lines and lines
-    starting with # are skipped; a cell that is not a plain number is an error naming its
-    line. Gaps are bridged linearly by the path itself. ``source`` and ``key`` name where the
-    log was given, for the error message.
+    starting with # are skipped; a cell that is not a plain number, or a temperature outside
+    :data:`isokin.compute.cooling.TEMPERATURE_C`, is an error naming its line. The log as a
+    whole meets the rules of :func:`isokin.compute.cooling.measured` (rows, span, speed).
+    ``source`` and ``key`` name where the log was given, for the error message.
     """
     values = []
     for line, numbers in _numeric_rows(source, key, path, "cooling log", LOG_COLUMNS):
-        if not numbers[1] > -273.15:
-            raise InputError(source, key, f"cooling log {path}, line {line}: temperature_C must lie above -273.15")
+        if TEMPERATURE_C.outside(numbers[1]):
+            raise InputError(source, key, f"cooling log {path}, line {line}: temperature_C {TEMPERATURE_C.rule}, "
+                             f"got {numbers[1]!r}")
         values.append(numbers)
-    if len(values) > MAX_LOG_ROWS:
-        raise InputError(source, key, f"cooling log {path} has {len(values)} rows; the limit is {MAX_LOG_ROWS}")
     table = np.array(values) if values else np.zeros((0, 2))
-    if np.unique(table[:, 0]).size < 2:
-        raise InputError(source, key, f"cooling log {path} needs at least two rows with distinct times")
-    return measured(table[:, 0], table[:, 1], label=Path(path).name)
+    try:
+        return measured(table[:, 0], table[:, 1], label=Path(path).name)
+    except InputError as exc:
+        raise InputError(source, key, f"cooling log {path}: {exc.key} {exc.problem}") from None
 
 
 TEMPERING_COLUMNS = ("temperature_C",)

@@ -24,6 +24,28 @@ def _times(t):
     return np.where(t > 0, t, np.nan)
 
 
+#: Columns of the log-time axis a long path is thinned to: more than a figure's pixels across.
+DRAWN_COLUMNS = 2000
+
+
+def _drawn(t, T):
+    """A path's times (for a log axis, see :func:`_times`) and temperatures as drawn: all points of
+    a short path; of a long one (a log of many rows), per column of the log-time axis its first
+    and last point and its lowest and highest temperature, which is all a figure can show."""
+    x = _times(t)
+    if t.size <= 4 * DRAWN_COLUMNS or not np.isfinite(x).any():
+        return x, T
+    log_t = np.log10(np.where(np.isfinite(x), x, np.nanmin(x)))
+    span = max(float(log_t[-1] - log_t[0]), 1e-12)
+    column = np.minimum(((log_t - log_t[0]) / span * DRAWN_COLUMNS).astype(int), DRAWN_COLUMNS - 1)
+    edges = np.flatnonzero(np.diff(column)) + 1
+    by_temperature = np.lexsort((T, column))
+    firsts = np.concatenate([[0], edges])
+    lasts = np.concatenate([edges - 1, [t.size - 1]])
+    keep = np.unique(np.concatenate([firsts, lasts, by_temperature[firsts], by_temperature[lasts]]))
+    return x[keep], T[keep]
+
+
 def plot_cct(result: CCTResult, ax=None, units="C"):
     """Draw the CCT diagram: cooling curves faintly, each product's start and finish, the start
     and finish of all products together in bold, the critical lines, and the hardness at the
@@ -40,7 +62,7 @@ def plot_cct(result: CCTResult, ax=None, units="C"):
     cooling = result.cooling
     T_plot = to_units(kelvin_to_celsius(cooling.temperature_K), units)
     for k in range(T_plot.shape[0]):
-        ax.plot(_times(cooling.time_s[k]), T_plot[k], **COOLING_STYLE)
+        ax.plot(*_drawn(cooling.time_s[k], T_plot[k]), **COOLING_STYLE)
     handles = []
     for i, (name, edges) in enumerate(result.curves.items()):
         bold = name == OVERALL
@@ -108,7 +130,7 @@ def plot_cooling(result: CoolingResult, ttt=None, cct=None, ax=None, units="C"):
                     linestyle=(0, (1, 1.5)), zorder=3)
     T_plot = to_units(kelvin_to_celsius(result.temperature_K), units)
     for k, label in enumerate(result.labels):
-        ax.plot(_times(result.time_s[k]), T_plot[k], color=PATH_COLOUR, linewidth=2.2, zorder=6)
+        ax.plot(*_drawn(result.time_s[k], T_plot[k]), color=PATH_COLOUR, linewidth=2.2, zorder=6)
         for name in result.start_time_s:
             t, T = result.start_time_s[name][k], result.start_temperature_K[name][k]
             if np.isfinite(t) and t > 0:
