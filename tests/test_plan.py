@@ -119,8 +119,10 @@ def test_the_numbers_agree_in_table_json_csv_xlsx_and_figure(tmp_path):
     chosen = min(rows, key=lambda r: abs(float(r["temperature_C"]) - rec["temperature_C"]))
     assert float(chosen["hold_time_s"]) == pytest.approx(rec["hold_time_s"], rel=1e-7)
     book = pd.read_excel(tmp_path / "aisi-4140-crmo-plan.xlsx", sheet_name=None)
-    assert set(book) == {"summary", "plan", "curves"}
+    assert set(book) == {"summary", "plan", "units", "inputs", "curves"}
     plan_sheet = book["plan"]
+    assert plan_sheet["hold_time_readable"][0] and dict(zip(book["units"]["column"], book["units"]["unit"]))[
+        "hold_time_s"] == "s"
     k = int(np.argmin(np.abs(plan_sheet["temperature_C"] - rec["temperature_C"])))
     assert plan_sheet["hold_time_s"][k] == pytest.approx(rec["hold_time_s"], rel=1e-9)
     assert f"recommended: {rec['temperature_C']:.1f} °C" in out

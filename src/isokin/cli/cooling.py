@@ -49,7 +49,8 @@ def cct(
             return report_figure(plot_cct, result, alloy.footer, units=units.value)
 
         def show():
-            typer.echo(f"{alloy.name}: continuous cooling from {in_units(result.start_C, units)}")
+            typer.echo(f"{alloy.name}: continuous cooling from {in_units(result.start_C, units)}, where the first "
+                       "product can form; times count from there")
             _final_table([f"{r:.3g} K/s" for r in result.rates_K_s], result.cooling, units)
             for record in result.critical_rates.values():
                 value = record.get("rate_K_s")
@@ -131,7 +132,7 @@ def cool(
                                  units=units.value)
 
         def show():
-            typer.echo(f"{alloy.name}: cooling from {in_units(start, units)}")
+            typer.echo(f"{alloy.name}: cooling from {in_units(start, units)}; times count from there")
             _final_table(list(result.labels), result, units)
             for k, label in enumerate(result.labels):
                 for product in result.start_temperature_K:

@@ -116,11 +116,6 @@ def plan(
             options.update({"budget_s": limit} if limit is not None else {})
             result = planning.anneal(alloy, **options)
         curves = ttt(alloy)
-        if xlsx:
-            try:
-                import openpyxl  # noqa: F401
-            except ImportError:
-                raise InputError(None, "--xlsx", "needs openpyxl: pip install 'isokin[xlsx]'") from None
 
         def draw():
             from ..plot.ttt import ttt_figure

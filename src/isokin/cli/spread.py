@@ -138,19 +138,31 @@ def _print_compare(results, units):
     for i, r in enumerate(results, start=1):
         typer.echo(f"  [{i}] {r.alloy}")
     typer.echo(f"  {'':<24}" + "".join(f"{f'[{i}]':>13}" for i in range(1, len(results) + 1)))
+    compositions = [r.inputs.get("composition", {}) for r in results]
+    elements = list(dict.fromkeys(e for c in compositions for e in c))
+    for element in elements:
+        typer.echo(f"  {element + ', mass %':<24}" + "".join(
+            f"{c[element]:>13g}" if element in c else f"{'-':>13}" for c in compositions))
     for line in lines:
         typer.echo(f"  {line:<24}" + "".join(
             f"{in_units(kelvin_to_celsius(float(r.critical_K[line])), units) if line in r.critical_K else '-':>13}"
             for r in results))
-    for label in ("start (1 %) nose", "start (1 %) nose time"):
-        cells = []
-        for r in results:
-            n = r.noses[r.overall or r.products[0]]
-            ok = bool(n.forms[0])
-            value = (in_units(float(n.temperature_C[0]), units) if "time" not in label else
-                     format_duration(float(n.time_s[0]))) if ok else "-"
-            cells.append(f"{value:>13}")
-        typer.echo(f"  {label:<24}" + "".join(cells))
+    # every product's start nose: the upper (ferrite, pearlite) and the bainite nose of a steel
+    from ..results import OVERALL
+
+    products = list(dict.fromkeys(p for r in results for p in r.products))
+    for product in products:
+        label = "all products, 1 % of what can form" if product == OVERALL else f"{product}, 1 % of its own"
+        typer.echo(f"  {label}:")
+        for what in ("nose", "nose time"):
+            cells = []
+            for r in results:
+                n = r.noses.get(product)
+                ok = n is not None and bool(n.forms[0]) and bool(n.inside[0])
+                value = (in_units(float(n.temperature_C[0]), units) if what == "nose" else
+                         format_duration(float(n.time_s[0]))) if ok else "-"
+                cells.append(f"{value:>13}")
+            typer.echo(f"    {what:<22}" + "".join(cells))
 
 
 def heats(alloy, range_text, samples, seed):

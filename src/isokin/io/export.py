@@ -20,7 +20,7 @@ import numpy as np
 
 from .. import __version__
 from ..constants import kelvin_to_celsius
-from ..readout import CAUTION_SHORT
+from ..readout import CAUTION_SHORT, format_duration
 from ..relations.hardness import hrc_from_hv_astm_e140
 from ..results import PRACTICAL_HORIZON_S, TTTResult
 from .toml_out import dumps
@@ -341,8 +341,38 @@ def plan_summary(result) -> dict:
     }
 
 
+def with_readable_times(columns: dict) -> dict:
+    """The columns with, after each time in seconds (a name ending in ``_s``, not a rate in
+    ``_K_s``), the same time as a planner reads it (``2.5 h``; empty where there is none) in
+    ``<name>_readable``."""
+    out = {}
+    for name, values in columns.items():
+        values = np.asarray(values)
+        out[name] = values
+        if column_unit(name) == "s" and values.dtype.kind == "f":
+            out[name[:-2] + "_readable"] = np.array(
+                [format_duration(v) if np.isfinite(v) and v <= PRACTICAL_HORIZON_S else "" for v in values.tolist()],
+                dtype=object)
+    return out
+
+
+#: Units of a column, read from how its name ends (the project writes every unit into the name).
+_UNIT_SUFFIXES = (("_K_s", "K/s"), ("_C", "°C"), ("_K", "K"), ("_s", "s"), ("_HV", "HV (Vickers)"),
+                  ("_HRC", "HRC (Rockwell C)"), ("_readable", "text: s, min, h or d"), ("_m", "m"),
+                  ("_W_m2K", "W/(m2 K)"))
+
+
+def column_unit(name: str) -> str:
+    """The unit a column's name gives (``hold_time_s`` -> s), or "" for a share, a flag or a text.
+
+    >>> column_unit("required_rate_K_s"), column_unit("temperature_C"), column_unit("feasible")
+    ('K/s', '°C', '')
+    """
+    return next((unit for suffix, unit in _UNIT_SUFFIXES if name.endswith(suffix)), "")
+
+
 def write_plan_csv(result, target: Path):
-    write_columns_csv({k: np.asarray(v) for k, v in result.rows.items()}, target)
+    write_columns_csv(with_readable_times(result.rows), target)
 
 
 def write_plan_xlsx(result, curves, target: Path):
@@ -356,9 +386,16 @@ def write_plan_xlsx(result, curves, target: Path):
     head += [(f"recommended {k}", v) for k, v in (summary["recommendation"] or {}).items()]
     head += [("no window", result.no_window or ""), ("isokin version", __version__)]
     head += [("caution", c) for c in result.cautions] + [("note", CAUTION_SHORT)]
+    plan = with_readable_times(result.rows)
+    columns = [(name, column_unit(name)) for name in plan]
+    inputs = [(f"option {k}", _plain(v)) for k, v in result.options.items()]
+    inputs += [(f"input {table}", str(values)) for table, values in result.inputs.items()]
+    inputs += [(f"model {k}", str(v)) for k, v in result.provenance.items()]
     with pd.ExcelWriter(target, engine="openpyxl") as book:
         pd.DataFrame(head, columns=["item", "value"]).to_excel(book, sheet_name="summary", index=False)
-        result.to_frame().to_excel(book, sheet_name="plan", index=False)
+        pd.DataFrame(plan).to_excel(book, sheet_name="plan", index=False)
+        pd.DataFrame(columns, columns=["column", "unit"]).to_excel(book, sheet_name="units", index=False)
+        pd.DataFrame(inputs, columns=["item", "value"]).to_excel(book, sheet_name="inputs", index=False)
         if curves is not None:
             curves.to_frame().to_excel(book, sheet_name="curves", index=False)
 
@@ -559,11 +596,11 @@ def write_temper_json(result, target: Path):
 
 
 def write_temper_csv(result, target: Path):
-    write_columns_csv({"temperature_C": result.temperatures_C, "time_s": result.times_s,
+    write_columns_csv(with_readable_times({"temperature_C": result.temperatures_C, "time_s": result.times_s,
                        "hollomon_jaffe_parameter": result.parameter,
                        "equivalent_1h_temperature_C": result.equivalent_1h_C, "hardness_HV": result.hardness_HV,
                        "hardness_HRC": hrc_from_hv_astm_e140(result.hardness_HV),
-                       "embrittlement_range": result.embrittlement.astype(int)}, target)
+                       "embrittlement_range": result.embrittlement.astype(int)}), target)
 
 
 def jominy_summary(result) -> dict:

@@ -139,11 +139,14 @@ def plot_cooling(result: CoolingResult, ttt=None, cct=None, ax=None, units="C"):
                 movable(ax.annotate(f"{literal(name)} starts", (t, y), xytext=(6, 4), textcoords="offset points",
                                     fontsize=7, color=PATH_COLOUR))
     ax.set_title(f"Cooling path: {literal(result.alloy)}", fontsize=11, loc="left")
+    starts = np.unique(np.round(to_units(kelvin_to_celsius(result.temperature_K[:, 0]), units), 1))
+    zero = f"time since {starts[0]:.0f} °{units}" if starts.size == 1 else "time since each path's start"
     if ttt is None and cct is None:
         log_time_axis(ax)
-        ax.set_xlabel("time, s (log scale)")
+        ax.set_xlabel(f"{zero}, s (log scale)")
     else:
-        ax.set_xlabel("time, s (log scale); the isothermal curves as hold times")
+        ax.set_xlabel(f"{zero}, s (log scale)" + ("; the CCT curves from the same start" if cct is not None else "")
+                      + "; the isothermal curves as hold times")
     ax.set_ylabel(f"temperature, °{units}")
     legend = ax.get_legend()
     extra = [Line2D([], [], color=PATH_COLOUR, linewidth=2.2,
