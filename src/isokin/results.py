@@ -452,8 +452,10 @@ class CCTResult:
     """A continuous-cooling diagram as data: per rate, where each curve starts and finishes.
 
     ``curves``: product (and "total") -> {"start": (times s, temperatures K),
-    "finish": (...)}, each of shape (rates,), NaN where the curve does not reach that rate;
-    ``cooling``: the CoolingResult of the rates' paths; ``critical_rates``: see
+    "finish": (...)}, each of shape (curve rates,), NaN where the curve does not reach that
+    rate; ``curve_rates_K_s``: the rates the curves are traced through (the rates asked for
+    and more between them, so that a curve is smooth); ``cooling``: the CoolingResult of the
+    paths of the rates asked for (``rates_K_s``); ``critical_rates``: see
     :func:`isokin.compute.cooling.critical_rates`.
     """
 
@@ -464,6 +466,7 @@ class CCTResult:
     curves: dict
     critical_rates: dict
     critical_K: dict
+    curve_rates_K_s: np.ndarray = None
 
     def to_frame(self):
         """Tidy pandas table: rate_K_s, curve (product or total), edge (start, finish), time_s, temperature_C."""
@@ -476,7 +479,8 @@ class CCTResult:
         for name, edges in self.curves.items():
             for edge, (times, temps) in edges.items():
                 ok = np.isfinite(times)
-                rows["rate_K_s"] += self.rates_K_s[ok].tolist()
+                rows["rate_K_s"] += (self.rates_K_s if self.curve_rates_K_s is None
+                                     else self.curve_rates_K_s)[ok].tolist()
                 rows["curve"] += [name] * int(ok.sum())
                 rows["edge"] += [edge] * int(ok.sum())
                 rows["time_s"] += times[ok].tolist()

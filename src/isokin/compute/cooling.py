@@ -556,6 +556,10 @@ ADDITIVITY_NOTE = ("isokinetic additivity: sum of dt/F(T) = S(X) per product (ex
                    "rules step by step (an approximation)")
 
 
+#: A CCT diagram traces its curves through this many rates per decade at least.
+CURVE_RATES_PER_DECADE = 8
+
+
 def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
     """The continuous-cooling (CCT) diagram for a family of constant rates.
 
@@ -572,7 +576,12 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
     start, end = _start_and_end(formation_top_C(alloy) if start_C is None else start_C, end_C)
     rates = np.sort(_rates(DEFAULT_RATES_K_S if rates_K_s is None else rates_K_s))
     result = cool(alloy, [constant_rate(r, start, end) for r in rates])
-    t, T, f = result.time_s, result.temperature_K, result.fractions
+    traced = rates
+    if rates.size > 1:  # the curves through more rates than the table lists, so that they are smooth
+        decades = np.log10(rates[-1] / rates[0])
+        traced = np.union1d(rates, np.geomspace(rates[0], rates[-1], int(np.ceil(CURVE_RATES_PER_DECADE * decades)) + 1))
+    dense = result if traced.size == rates.size else cool(alloy, [constant_rate(r, start, end) for r in traced])
+    t, T, f = dense.time_s, dense.temperature_K, dense.fractions
     curves = {}
     names = [p.name for p in alloy.products]
     transformed = sum(f[n] for n in names)
@@ -584,7 +593,7 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
         curves[name] = {"start": (start_t, start_T), "finish": (finish_t, finish_T)}
     critical = critical_rates(alloy, start, end)
     return CCTResult(alloy=alloy.name, rates_K_s=rates, start_C=start, cooling=result, curves=curves,
-                     critical_rates=critical, critical_K=dict(alloy.critical_K))
+                     critical_rates=critical, critical_K=dict(alloy.critical_K), curve_rates_K_s=traced)
 
 
 def cct_beneath(alloy, start_C):

@@ -73,7 +73,7 @@ def plot_cct(result: CCTResult, ax=None, units="C"):
             if np.isfinite(times).sum() < 1:
                 continue
             ax.plot(times, to_units(kelvin_to_celsius(temps), units), color=colour, linestyle=style,
-                    linewidth=2.6 if bold else 1.5, marker="o" if not bold else None, markersize=2.5, zorder=3)
+                    linewidth=2.6 if bold else 1.5, zorder=3)
             drawn = True
         if drawn:
             handles.append(Line2D([], [], color=colour, linewidth=2.6 if bold else 1.8,
