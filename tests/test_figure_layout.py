@@ -90,6 +90,16 @@ COMMANDS = {
     "fit": ["fit", "brackwater-bw52crv-dilatometer.csv", "--alloy", "brackwater-bw52crv.toml"],
     "spread": ["spread", "aisi-4140-crmo.toml", "--samples", "200"],
     "compare": ["compare", "aisi-4140-crmo.toml", "aisi-4340-nicrmo.toml"],
+    "sheet": ["sheet", "aisi-1080-eutectoid.toml"],
+    "sheet austemper worst case": ["sheet", "aisi-4140-crmo.toml", "--route", "austemper", "--worst-case", "--samples",
+                                   "16"],
+    "sheet interrupted": ["sheet", "aisi-4340-nicrmo.toml", "--route", "interrupted-quench", "--thickness-mm", "25",
+                          "--htc", "800"],
+    "sheet anneal": ["sheet", "brackwater-bw52crv.toml", "--route", "anneal"],
+    "sheet without a window": ["sheet", "aisi-4340-nicrmo.toml", "--route", "austemper", "--max-hold", "10s"],
+    "sheet quench and temper": ["sheet", "brackwater-bw52crv.toml", "--route", "quench-and-temper", "--curve",
+                                "brackwater-bw52crv-tempering.csv", "--target-hrc", "44:48"],
+    "sheet Al-Cu": ["sheet", "brackwater-ba42-precipitation.toml", "--route", "anneal"],
 }
 
 

@@ -54,6 +54,7 @@ _EXPORTS = {
     "CoolingResult": "isokin.results",
     "CCTResult": "isokin.results",
     "plot_ttt": "isokin.plot.ttt",
+    "process_sheet": "isokin.plot.sheet",
     "InputError": "isokin.errors",
 }
 __all__ = ["__version__", *_EXPORTS]

@@ -22,6 +22,16 @@ PRACTICAL_HORIZON_S = 1.0e9
 OVERALL = "total"
 
 
+class CriticalInCelsius:
+    """``critical_C``: the labelled lines of ``critical_K`` in °C, for a result that has them."""
+
+    @property
+    def critical_C(self) -> dict:
+        """Line -> temperature, °C (a float, or an array for a batch), as ``critical_K`` in K."""
+        return {name: kelvin_to_celsius(np.asarray(t, dtype=float)) if np.ndim(t) else kelvin_to_celsius(float(t))
+                for name, t in self.critical_K.items()}
+
+
 @dataclass(frozen=True)
 class Measurements:
     """Measured points: temperature (K), fraction, time (s), and product (None: the total)."""
@@ -67,7 +77,7 @@ class Noses:
 
 
 @dataclass(frozen=True)
-class TTTResult:
+class TTTResult(CriticalInCelsius):
     """An isothermal diagram: t(X, T) and the noses of every product, for one alloy or a batch.
 
     Attributes
@@ -103,6 +113,9 @@ class TTTResult:
         ("martensite"; None for an alloy without one), for the figure's words.
     fraction_meanings : dict of str to str
         What a fraction X of each curve is, in plain words.
+    fraction_of : dict of str to str
+        The same in a few words for a table beside the fraction ("of the austenite", "of
+        what can transform", "of its own completion").
     valid : ndarray of bool or None
         For a batch, the members that could be computed (the others have no curves); None
         where all could.
@@ -126,6 +139,7 @@ class TTTResult:
     provenance: dict = field(default_factory=dict)
     regions: tuple = ()
     fraction_meanings: dict = field(default_factory=dict)
+    fraction_of: dict = field(default_factory=dict)
     valid: object = None
     parent: str = "untransformed"
     athermal: object = None
@@ -166,6 +180,7 @@ class TTTResult:
             inputs=self.inputs,
             provenance=self.provenance,
             fraction_meanings=self.fraction_meanings,
+            fraction_of=self.fraction_of,
         )
 
     @property
@@ -236,7 +251,7 @@ class TTTResult:
 
 
 @dataclass(frozen=True)
-class HoldResult:
+class HoldResult(CriticalInCelsius):
     """The microstructure after isothermal holds and a quench, as data.
 
     Attributes
@@ -253,11 +268,16 @@ class HoldResult:
         Product (and "total") -> seconds to each milestone at each temperature, shape P + (M,);
         a product's milestones are shares of its own completion, the total's of what can
         transform at that temperature (``transformable``); ``inf`` where never.
+    milestone_of : dict of str to str
+        Curve -> what its milestones are a share of, in a few words for a table (a steel
+        product's own completion, unlike the diagram's share of the austenite).
     transformable : ndarray
         Share of the part that can transform at each temperature, given time.
     austenite_carbon, martensite_start_K : ndarray or None
         For steels: the carbon (mass %) of the austenite left at the end of each hold, and
         its Ms (K), from which the quench forms martensite.
+    critical_K : dict
+        The alloy's labelled lines (K), as the diagram has them (``critical_C`` in °C).
     warnings : tuple of str
     inputs, provenance : dict
     """
@@ -270,11 +290,18 @@ class HoldResult:
     milestone_fractions: np.ndarray
     milestones_s: dict
     transformable: np.ndarray
+    milestone_of: dict = field(default_factory=dict)
     austenite_carbon: object = None
     martensite_start_K: object = None
+    critical_K: dict = field(default_factory=dict)
     warnings: tuple = ()
     inputs: dict = field(default_factory=dict)
     provenance: dict = field(default_factory=dict)
+
+    @property
+    def martensite_start_C(self):
+        """Ms of the austenite left at the end of each hold, °C (steels; None otherwise)."""
+        return None if self.martensite_start_K is None else kelvin_to_celsius(self.martensite_start_K)
 
     def to_frame(self):
         """Wide pandas table: temperature_C, time_s, one column per phase (shares of the part)
@@ -291,7 +318,7 @@ class HoldResult:
 
 
 @dataclass(frozen=True)
-class CoolingResult:
+class CoolingResult(CriticalInCelsius):
     """Phases along cooling paths, as data: arrays of shape (path, step) and per path.
 
     ``fractions``: phase -> (P, M) share of the part along each path (they sum to 1);
@@ -335,7 +362,7 @@ class CoolingResult:
 
 
 @dataclass(frozen=True)
-class SectionResult:
+class SectionResult(CriticalInCelsius):
     """A quenched section, as data: a batch of B sections of one shape, N nodes each, M steps.
 
     ``size_m`` (B,): thickness or diameter; ``depth_m`` (B, N): each node's depth below the
@@ -402,7 +429,7 @@ class SectionResult:
 
 
 @dataclass(frozen=True)
-class JominyResult:
+class JominyResult(CriticalInCelsius):
     """An end-quench test, as data: against the distance from the quenched end (N nodes,
     ``distance_m`` rising), the hardness (HV), martensite share and cooling rate at 700 °C
     (K/s); ``temperature_K`` (N, M) over ``time_s``; the hardness at the standard distances
@@ -448,7 +475,7 @@ class JominyResult:
 
 
 @dataclass(frozen=True)
-class CCTResult:
+class CCTResult(CriticalInCelsius):
     """A continuous-cooling diagram as data: per rate, where each curve starts and finishes.
 
     ``curves``: product (and "total") -> {"start": (times s, temperatures K),
@@ -489,7 +516,7 @@ class CCTResult:
 
 
 @dataclass(frozen=True)
-class PlanResult:
+class PlanResult(CriticalInCelsius):
     """A heat-treat plan for one route, as data.
 
     ``rows``: column -> array over the candidate temperatures (temperature_C, feasible,

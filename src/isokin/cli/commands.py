@@ -12,6 +12,7 @@ from .fit import fit
 from .hold import hold
 from .plan import plan
 from .section import jominy, section
+from .sheet import sheet
 from .spread import compare, spread
 from .temper import temper
 
@@ -48,7 +49,7 @@ app = typer.Typer(
     "for heat-treatment planning. " + CAUTION,
 )
 
-for _command in (diagram, check, hold, cct, cool, section, jominy, plan, temper, fit, spread, compare):
+for _command in (diagram, check, hold, cct, cool, section, jominy, plan, temper, sheet, fit, spread, compare):
     app.command(cls=_Command)(_command)
 
 

@@ -96,13 +96,15 @@ def check(
 
 
 def _print_noses(result, units):
-    typer.echo(f"{'product':<14}{'fraction':>9}  {'nose':>10}  nose time")
+    width = max((len(of) for of in result.fraction_of.values()), default=0) + 8
+    typer.echo(f"{'product':<14}{'fraction':<{width}}  {'nose':>10}  nose time")
     for name in result.products:
         n = result.noses[name]
         for k, x in enumerate(result.fractions):
             if n.forms[k]:
                 where = "" if n.inside[k] else "  (at the edge of the range: the true nose lies outside)"
-                typer.echo(f"{name:<14}{x:>9.3g}  {in_units(float(n.temperature_C[k]), units):>10}  "
+                share = f"{x * 100:g} % {result.fraction_of.get(name, '')}".rstrip()
+                typer.echo(f"{name:<14}{share:<{width}}  {in_units(float(n.temperature_C[k]), units):>10}  "
                            f"{format_duration(float(n.time_s[k]))}{where}")
     for name in result.products:
         if not result.noses[name].forms.any():

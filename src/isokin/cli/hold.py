@@ -67,12 +67,12 @@ def _print_hold(alloy, temperature_c, result, units):
                                              units.value) if carbon else ""
         typer.echo(f"  {format_duration(float(t)):>10}  " + "  ".join(
             f"{float(result.fractions[n][k]) * 100:>{max(len(n), 7) - 2}.1f} %" for n in names) + left)
-    typer.echo(f"  times at {in_units(temperature_c, units)} to 1 %, 50 %, 99 % (products: of their own completion; "
-               f"total: of the {float(result.transformable[0]) * 100:.0f} % that can transform here)")
+    typer.echo(f"  times at {in_units(temperature_c, units)} to 1 %, 50 %, 99 % "
+               f"({float(result.transformable[0]) * 100:.0f} % of the part can transform here)")
     for product, marks in result.milestones_s.items():
         cells = [format_duration(float(v)) if math.isfinite(v) and v <= PRACTICAL_HORIZON_S else "never"
                  for v in marks[0]]
-        typer.echo(f"  {product:<12}" + "".join(f"{c:>12}" for c in cells))
+        typer.echo(f"  {product:<12}" + "".join(f"{c:>12}" for c in cells) + f"   {result.milestone_of[product]}")
 
 
 def _durations(times: list, grid: Optional[str]) -> list:

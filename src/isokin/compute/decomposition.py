@@ -456,16 +456,22 @@ def hold(alloy, temperature_C, time_s, quench_to_C=20.0, milestones=True):
     else:
         fractions[alloy.parent] = left
     marks = np.asarray(MILESTONES)
-    times_to = {}
+    times_to, shares_of = {}, {}
     if milestones:
         T_marks = T[..., None]
         times_to = {p.name: p.time_to_fraction(T_marks, marks) for p in alloy.products}
+        # a diagram's product curves are shares of the parent where the products wait their turn or stop at
+        # an equilibrium share; these milestones are each product's own completion all the same
+        unlike = bool(alloy.sequence or any(p.capped for p in alloy.products))
+        shares_of = {p.name: "of its own completion at this temperature"
+                     + (f", not of the {alloy.parent} as on the diagram" if unlike else "") for p in alloy.products}
         if len(alloy.products) > 1:
             times_to[OVERALL] = Decomposition(alloy, T_marks).time_to_total(marks)
+            shares_of[OVERALL] = "of what can transform at this temperature, as on the diagram"
     return HoldResult(alloy=alloy.name, temperatures_C=T_C, times_s=t, quench_to_C=float(quench_to_C),
-                      fractions=fractions, milestone_fractions=marks, milestones_s=times_to,
+                      fractions=fractions, milestone_fractions=marks, milestones_s=times_to, milestone_of=shares_of,
                       transformable=held.transformable, austenite_carbon=carbon, martensite_start_K=start,
-                      warnings=tuple(alloy.warnings), inputs=alloy.inputs, provenance=dict(alloy.provenance))
+                      critical_K=dict(alloy.critical_K), warnings=tuple(alloy.warnings), inputs=alloy.inputs, provenance=dict(alloy.provenance))
 
 
 def _bracketed_root(total, sloped, a, b, target, idx):

@@ -20,6 +20,7 @@ from ..relations.hardness import hardness_of_mixture
 from ..results import PRACTICAL_HORIZON_S, PlanResult
 from .cooling import constant_rate, cool, default_start_C, lumped_time_constant
 from .decomposition import Decomposition, ProductCurve, hold
+from .spread import sampled_heats
 from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
 
 #: Above about this the bainite of an austempering hold is upper bainite, coarser and less
@@ -206,11 +207,12 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
         diffusional product would start, the microstructure and hardness after the hold and
         quench, and the slowest quench to the bath that keeps ferrite + pearlite under 1 %;
         the window, its edges, and the recommendation with the reason. With
-        ``worst_case`` (a batch of the alloy's heats, e.g. sampled over its composition
-        range) a temperature is feasible only where it is for every heat, hold times are the
+        ``worst_case`` (True: the alloy's own composition range, sampled as ``plan
+        --worst-case`` does; or a batch of the alloy's heats) a temperature is feasible only where it is for every heat, hold times are the
         longest over the heats and Ms the highest; the other columns stay the nominal's.
     """
     _steel_only(alloy, "austemper")
+    worst_case = _heats(alloy, worst_case)
     safety = DEFAULT_SAFETY["austemper"] if safety is None else safety
     _checked(worst_case, safety, margin_K, max_hold_s, target_hv=target_hv)
     model = worst_case if worst_case is not None else alloy
@@ -289,6 +291,7 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
     5 K of the bath is compared with the safe time, and a warning given where it exceeds it.
     """
     _steel_only(alloy, "interrupted-quench")
+    worst_case = _heats(alloy, worst_case)
     safety = DEFAULT_SAFETY["interrupted-quench"] if safety is None else safety
     _checked(worst_case, safety, margin_K)
     model = worst_case if worst_case is not None else alloy
@@ -328,6 +331,7 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
     the fastest of them is recommended."""
     if check_alloy(alloy).batch_shape:
         raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
+    worst_case = _heats(alloy, worst_case)
     safety = DEFAULT_SAFETY["anneal"] if safety is None else safety
     _checked(worst_case, safety, limit_s=budget_s, limit_key="budget_s")
     model = worst_case if worst_case is not None else alloy
@@ -368,6 +372,15 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
                    f"(x {safety:g})" if fastest else "no temperature completes the transformation")
     return _result("anneal", alloy, rows, ok, edges, choice, reason, nearest,
                    {"budget_s": budget_s, "safety": safety, **_worst_note(worst_case)})
+
+
+def _heats(alloy, worst_case):
+    """The heats of a worst-case plan: ``True`` samples the alloy's own composition range
+    (the default heats and seed, as ``plan --worst-case``), ``False`` or None plans the
+    nominal alone, and a batch of heats is taken as given."""
+    if worst_case is True:
+        return sampled_heats(alloy)
+    return None if worst_case is False else worst_case
 
 
 def _worst_note(worst_case):

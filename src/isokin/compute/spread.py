@@ -14,6 +14,7 @@ import numpy as np
 
 from ..errors import InputError, number, whole_number
 from ..products.alloy import check_alloy
+from ..relations.composition import ELEMENTS
 from ..results import Noses, SpreadResult
 from .ttt import ttt
 
@@ -35,21 +36,50 @@ CHUNK_HEATS = 500
 
 
 def check_ranges(ranges: dict) -> dict:
-    """Ranges as {element: ("range", low, high) or ("normal", nominal, sigma)}, checked."""
+    """Ranges as {element: ("range", low, high) or ("normal", nominal, sigma)}, checked.
+
+    Each element's range may be given as ``(min, max)`` (or a list, as an alloy file's
+    ``[composition_range]`` has it), ``{"nominal": x, "uncertainty": s}`` (one standard
+    deviation), or already as ``("range", min, max)`` / ``("normal", nominal, sigma)``.
+
+    >>> check_ranges({"C": (0.38, 0.43), "Mn": {"nominal": 0.8, "uncertainty": 0.03}})
+    {'C': ('range', 0.38, 0.43), 'Mn': ('normal', 0.8, 0.03)}
+    """
     if not isinstance(ranges, dict) or not ranges:
         raise InputError(None, "composition_range", "is empty; give the range of one or more elements "
-                         "(e.g. C from 0.38 to 0.43 mass %)")
+                         '(e.g. {"C": (0.38, 0.43)}, C from 0.38 to 0.43 mass %)')
     out = {}
     for element, spec in ranges.items():
         key = f"composition_range.{element}"
-        if not (isinstance(spec, tuple) and len(spec) == 3 and spec[0] in ("range", "normal")):
-            raise InputError(None, key, f'must be ("range", min, max) or ("normal", nominal, sigma), got {spec!r}')
-        kind, a, b = spec
+        if element not in ELEMENTS:
+            raise InputError(None, key, f"unknown element; one of {', '.join(ELEMENTS)}")
+        kind, a, b = _range_form(key, spec)
         a, b = number(key, a, 0.0, 100.0), number(key, b, 0.0, 100.0)
         if kind == "range" and not a <= b:
             raise InputError(None, key, f"must be [min, max] with 0 <= min <= max, got [{a:g}, {b:g}]")
         out[element] = (kind, a, b)
     return out
+
+
+def _range_form(key, spec):
+    """(kind, a, b) of one element's range in any of the forms :func:`check_ranges` takes."""
+    if isinstance(spec, (tuple, list)) and len(spec) == 3 and spec[0] in ("range", "normal"):
+        return tuple(spec)
+    if isinstance(spec, (tuple, list)) and len(spec) == 2 and not any(isinstance(v, str) for v in spec):
+        return ("range", *spec)
+    if isinstance(spec, dict) and set(spec) == {"nominal", "uncertainty"}:
+        return "normal", spec["nominal"], spec["uncertainty"]
+    raise InputError(None, key, f'must be (min, max), {{"nominal": x, "uncertainty": s}}, ("range", min, max) or '
+                     f'("normal", nominal, sigma), in mass %, got {spec!r}')
+
+
+def own_ranges(alloy) -> dict:
+    """The alloy's own composition range (an alloy file's ``[composition_range]``), checked."""
+    raw = check_alloy(alloy).inputs.get("composition_range")
+    if raw is None:
+        raise InputError(None, "composition_range", 'this alloy has no [composition_range]; give ranges, e.g. '
+                         '{"C": (0.38, 0.43), "Mn": (0.75, 1.00)} (mass %)')
+    return check_ranges(raw)
 
 
 def nominal_of(composition: dict, ranges: dict) -> dict:
@@ -92,17 +122,19 @@ def latin_hypercube(samples: int, dimensions: int, seed=0):
     return (strata + rng.random((samples, dimensions))) / samples
 
 
-def sampled_heats(alloy, ranges: dict, samples=WORST_CASE_SAMPLES, seed=0):
-    """A batch of heats sampled over the ranges (:func:`sample_compositions`), each built
-    with the steel's own grain size, options and kinetics: e.g. the worst case of a hold plan."""
+def sampled_heats(alloy, ranges: dict = None, samples=WORST_CASE_SAMPLES, seed=0):
+    """A batch of heats sampled over the ranges (:func:`sample_compositions`; default the
+    alloy's own, :func:`own_ranges`), each built with the steel's own grain size, options and
+    kinetics: e.g. the worst case of a hold plan."""
     if check_alloy(alloy).composition is None:
         raise InputError(None, "composition_range", "a composition range is for steels")
     whole_number("samples", samples, 2, MAX_WORST_CASE_SAMPLES)
-    mass = sample_compositions(alloy.composition.analysis(), check_ranges(ranges), samples, seed)
+    ranges = own_ranges(alloy) if ranges is None else check_ranges(ranges)
+    mass = sample_compositions(alloy.composition.analysis(), ranges, samples, seed)
     return alloy.with_composition(mass)
 
 
-def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, build=None, progress=None):
+def spread(alloy, ranges: dict = None, samples=DEFAULT_SAMPLES, seed=0, overall=True, build=None, progress=None):
     """The curves of every sampled composition, their quantiles and envelope, the noses' and
     Ms's spread and the elements that drive the spread.
 
@@ -110,8 +142,9 @@ def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, b
     ----------
     alloy : Alloy
         The nominal steel (its analysis is the centre where a range does not say otherwise).
-    ranges : dict
-        See :func:`check_ranges`.
+    ranges : dict, optional
+        Element -> range, in any form :func:`check_ranges` takes (``{"C": (0.38, 0.43)}``);
+        default the alloy's own ``[composition_range]`` (:func:`own_ranges`).
     build : callable, optional
         ``build(mass_percent) -> Alloy`` for a batch of compositions; default the steel's own
         options (grain size, austenitizing temperature, Ms method, kinetics).
@@ -124,7 +157,7 @@ def spread(alloy, ranges: dict, samples=DEFAULT_SAMPLES, seed=0, overall=True, b
     """
     if check_alloy(alloy).composition is None:
         raise InputError(None, "composition_range", "a composition spread is for steels")
-    ranges = check_ranges(ranges)
+    ranges = own_ranges(alloy) if ranges is None else check_ranges(ranges)
     build = alloy.with_composition if build is None else build
     composition = alloy.composition.analysis()
     nominal_alloy = build(nominal_of(composition, ranges))

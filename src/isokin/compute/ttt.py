@@ -199,10 +199,13 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
             regions = regions_after(alloy, grid, times[OVERALL][-1], noses)
     warnings = list(alloy.warnings)
     meanings = {p.name: fraction_meaning(alloy, p, within) for p in alloy.products}
+    shares_of = {p.name: f"of the {alloy.parent}" if within else "of its own completion" for p in alloy.products}
     if with_whole:
         meanings[OVERALL] = ("share of the austenite that can transform at the hold temperature that has transformed, "
-                             "all products together" if alloy.martensite is not None else
+                             "all products together (as hold's times to 1, 50, 99 % of the total count it)"
+                             if alloy.martensite is not None else
                              "share of what can transform at the hold temperature that has, all products together")
+        shares_of[OVERALL] = "of what can transform"
     fastest = min((float(np.min(n.time_s)) for n in noses.values()), default=np.inf)
     if fastest < IMPLAUSIBLY_FAST_S:
         warnings.append(f"the fastest curve reaches its fraction in {fastest:.2g} s, faster than any diffusional "
@@ -226,6 +229,7 @@ def ttt(alloy, temperatures_C=None, fractions=DEFAULT_FRACTIONS, points=None, ov
         provenance=dict(alloy.provenance),
         regions=regions,
         fraction_meanings=meanings,
+        fraction_of=shares_of,
         valid=alloy.valid,
         parent=alloy.parent,
         athermal=None if alloy.martensite is None else alloy.martensite.name,
@@ -239,4 +243,5 @@ def fraction_meaning(alloy, product, within):
     waits = alloy.sequence.get(product.name)
     after = f", counted from when {waits} has reached {WAIT_FRACTION * 100:g} % of its own share" if waits else ""
     return (f"share of the {alloy.parent} that has become {product.name}, by itself within the decomposition{after}; "
-            "a curve stops where its equilibrium share is smaller")
+            "a curve stops where its equilibrium share is smaller; not the product's own completion at that "
+            "temperature, which hold's times to 1, 50, 99 % count")

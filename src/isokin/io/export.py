@@ -238,7 +238,9 @@ def hold_summary(result) -> dict:
         "transformable_share": round(float(np.ravel(result.transformable)[0]), 6),
         "milestones_s": milestones,
         "milestone_meaning": ("seconds of hold to 1, 50 and 99 % of each product's own completion, and for 'total' "
-                              "of what can transform at this temperature; null: not within the practical horizon"),
+                              "of what can transform at this temperature (milestone_of says it per curve); null: not "
+                              "within the practical horizon"),
+        "milestone_of": dict(result.milestone_of),
         "practical_horizon_s": PRACTICAL_HORIZON_S,
         "model_choices": result.provenance,
         "warnings": list(result.warnings),
