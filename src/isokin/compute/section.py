@@ -37,7 +37,7 @@ import numpy as np
 from scipy.linalg import solve_banded
 
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
-from ..errors import InputError, choice, whole_number
+from ..errors import InputError, choice, numbers, whole_number
 from ..relations import conduction as C
 from ..relations.hardenability import ideal_critical_diameter_grossmann_in
 from ..relations.hardness import E140_HRC, E140_HV, hardness_of_mixture
@@ -616,6 +616,57 @@ JOMINY_SIDES_NOTE = ("1-D along the axis; the far end insulated; the sides lose 
                      "a loss per volume of 4 h_side / D (common practice, from memory)")
 
 
+#: The distance of a hardenability band from the quenched end: metres per unit of each column.
+BAND_DISTANCE_UNITS = {"distance_sixteenths_in": C.INCH_M / 16.0, "distance_mm": 1e-3}
+#: Rockwell C bounds of a band's hardness.
+BAND_HRC = (0.0, 70.0)
+
+
+def band_rows_wrong(distance_m, hrc_min, hrc_max):
+    """Rows of a hardenability band that cannot be: a distance off the end-quench bar, or not
+    0 <= hrc_min <= hrc_max <= 70."""
+    return ~((distance_m > 0.0) & (distance_m <= JOMINY_LENGTH_M) & (hrc_min >= BAND_HRC[0]) & (hrc_min <= hrc_max)
+             & (hrc_max <= BAND_HRC[1]))
+
+
+def hardness_band(table):
+    """A hardenability band from a table of lists (an alloy file's ``[hardenability_band]``):
+    one distance list, ``distance_sixteenths_in`` or ``distance_mm``, and ``hrc_min``,
+    ``hrc_max`` of the same length. Returns (distance_m, hrc_min, hrc_max) sorted by distance;
+    InputError naming the key (``hardenability_band.<key>``) otherwise."""
+    where = "hardenability_band"
+    if not isinstance(table, dict):
+        raise InputError(None, where, "must be a table of lists: distance_sixteenths_in (or distance_mm), hrc_min, "
+                         "hrc_max")
+    known = (*BAND_DISTANCE_UNITS, "hrc_min", "hrc_max")
+    for key in table:
+        if key not in known:
+            raise InputError(None, f"{where}.{key}", f"unknown key; valid keys are {', '.join(known)}")
+    distance = [key for key in BAND_DISTANCE_UNITS if key in table]
+    if len(distance) != 1:
+        raise InputError(None, where, "give one distance list: distance_sixteenths_in or distance_mm")
+    columns = {}
+    for key in (distance[0], "hrc_min", "hrc_max"):
+        if key not in table:
+            raise InputError(None, f"{where}.{key}", "required key is missing")
+        if not isinstance(table[key], (list, tuple, np.ndarray)):
+            raise InputError(None, f"{where}.{key}", "must be a list of numbers, one per distance")
+        columns[key] = numbers(f"{where}.{key}", table[key])
+    lengths = {v.size for v in columns.values()}
+    if len(lengths) != 1 or lengths.pop() > 100:
+        raise InputError(None, f"{where}.hrc_max", f"{distance[0]}, hrc_min and hrc_max must be lists of the same "
+                         "length (at most 100)")
+    d = columns[distance[0]] * BAND_DISTANCE_UNITS[distance[0]]
+    wrong = band_rows_wrong(d, columns["hrc_min"], columns["hrc_max"])
+    if wrong.any():
+        k = int(np.argmax(wrong))
+        raise InputError(None, where, f"entry {k + 1}: the distance must lie on the {JOMINY_LENGTH_M * 1e3:g} mm bar "
+                         f"and 0 <= hrc_min <= hrc_max <= 70, got {columns[distance[0]][k]:g}, "
+                         f"{columns['hrc_min'][k]:g}, {columns['hrc_max'][k]:g}")
+    order = np.argsort(d, kind="stable")
+    return d[order], columns["hrc_min"][order], columns["hrc_max"][order]
+
+
 def jominy(alloy, start_C=None, water_C=JOMINY_WATER_C, jet_W_m2K=JOMINY_JET_W_M2K, band=None, nodes=JOMINY_NODES,
            properties=None, max_step_K=MAX_STEP_K):
     """The end-quench (Jominy) test by the conduction model along the bar, and DI by Grossmann.
@@ -627,7 +678,8 @@ def jominy(alloy, start_C=None, water_C=JOMINY_WATER_C, jet_W_m2K=JOMINY_JET_W_M
     Parameters
     ----------
     band : (distance_m, hrc_min, hrc_max), optional
-        A hardenability band to check the predicted curve against.
+        A hardenability band to check the predicted curve against; default the alloy file's
+        ``[hardenability_band]`` where it has one.
 
     Returns
     -------
@@ -672,6 +724,9 @@ def jominy(alloy, start_C=None, water_C=JOMINY_WATER_C, jet_W_m2K=JOMINY_JET_W_M
         warnings.append(f"DI: {', '.join(outside_factors)} lie outside the range of their ASTM A255 factors; "
                         "DI is extrapolated")
     checked = None
+    band_source = "given" if band is not None else None
+    if band is None and "hardenability_band" in alloy.inputs:
+        band, band_source = hardness_band(alloy.inputs["hardenability_band"]), "the alloy file's [hardenability_band]"
     if band is not None:
         d_band, lo, hi = (np.asarray(v, dtype=float) for v in band)
         # below HRC 20 (E140's first row) read as 20: a band's low end there means "20 or below"
@@ -691,6 +746,7 @@ def jominy(alloy, start_C=None, water_C=JOMINY_WATER_C, jet_W_m2K=JOMINY_JET_W_M
         provenance={**alloy.provenance, "thermal_properties": props.note, "coupling": COUPLING_NOTE,
                     "sides": JOMINY_SIDES_NOTE, "jet": f"h {jet_W_m2K:g} W/m2K on the quenched end (order quoted in "
                     "end-quench simulations, from memory)",
+                    **({"band": band_source} if band_source else {}),
                     "ideal_diameter": "Grossmann's method: carbon base at the grain size times ASTM A255 multiplying "
                                       "factors (all recalled from memory of the standard)"})
 
