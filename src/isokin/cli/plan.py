@@ -214,6 +214,7 @@ def _duration_option(text: Optional[str], option: str) -> Optional[float]:
 #: Plan columns as printed: heading, and how the value is written.
 _PLAN_COLUMNS = {"centre_arrival_s": ("centre in", "duration"), "equalize_s": ("equalizes in", "duration"),
                  "ferrite_pearlite_on_arrival": ("F+P by then", "percent"),
+                 "centre_transformed_on_arrival": ("centre done", "percent"),
                  "formed_on_arrival": ("formed by then", "percent"), "start_used_on_arrival": ("start used", "percent"),
                  "required_rate_K_s": ("quench K/s", "number"), "hardness_HV": ("HV", "number"),
                  "embrittlement_range": ("embrittles", "flag"), "start_any_s": ("first 1 % at", "duration")}

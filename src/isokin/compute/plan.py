@@ -21,7 +21,7 @@ from ..results import PRACTICAL_HORIZON_S, PlanResult
 from .cooling import LUMPED_BIOT_LIMIT as LUMPED_LIMIT
 from .cooling import constant_rate, cool, default_start_C
 from .decomposition import Decomposition, ProductCurve, hold
-from .section import BATH_NODES, CENTRE_WITHIN_K, into_baths
+from .section import BATH_NODES, CENTRE_WITHIN_K, into_baths, section_sizes
 from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
 
 #: Above about this the bainite of an austempering hold is upper bainite, coarser and less
@@ -29,6 +29,9 @@ from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
 LOWER_BAINITE_BELOW_C = 400.0
 #: Austempering: ferrite + pearlite after the hold must stay under this share of the part.
 SOFT_LIMIT = 0.01
+#: Austempering a section: a warning where more than this share of the centre transforms before
+#: the centre reaches the bath.
+TRANSFORMED_ON_THE_WAY = 0.1
 #: Window edges are refined to this, K.
 EDGE_TOLERANCE_K = 0.01
 #: Hold temperatures scanned, K apart.
@@ -164,10 +167,13 @@ def _section(shape, size_m, thickness_m, heat_transfer_W_m2K, severity_per_in, h
     if not surface:
         raise InputError(None, size_key, "give the bath's surface condition with the section: a heat-transfer "
                          "coefficient, a Grossmann severity or a table of h against the surface temperature")
+    size = section_sizes(size, size_key)
+    if size.size != 1:
+        raise InputError(None, size_key, "give one section size")
     if worst_case is not None:
         raise InputError(None, "worst_case", "a worst-case plan over the heats of a range does not take a section "
                          "(yet): plan the section on the nominal analysis, or the range without a section")
-    return {"shape": shape or ("plate" if thickness_m is not None else "bar"), "size_m": size,
+    return {"shape": shape or ("plate" if thickness_m is not None else "bar"), "size_m": float(size[0]),
             "model": section_model, **surface}
 
 
@@ -184,7 +190,7 @@ def _section_options(section, arrived):
         return {}
     how = ("conduction through the section" if arrived.model == "conduction" else
            f"lumped (Biot below {LUMPED_LIMIT:g})")
-    return {"shape": section["shape"], "size_m": float(np.ravel(section["size_m"])[0]), "surface": arrived.surface,
+    return {"shape": section["shape"], "size_m": section["size_m"], "surface": arrived.surface,
             "biot_number": arrived.biot_number, "cooling_model": how,
             **({"section_nodes": BATH_NODES} if arrived.model == "conduction" else {})}
 
@@ -291,6 +297,7 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
     arrived = _arrival(alloy, section, start_C, T) if section is not None else None
     if arrived is not None:
         scan_soft = sum(arrived.on_arrival[n] for n in soft if n in arrived.on_arrival).max(axis=-1)
+        centre_transformed = sum(arrived.on_arrival[p.name] for p in alloy.products)[:, 0]
 
     def parts(T):
         """(hold, ferrite + pearlite in all, the isothermal hold, the centre's arrival, ferrite +
@@ -322,7 +329,8 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
     extra = _austemper_extra(alloy, T, isothermal_s, start_soft, start_C)
     extra["upper_bainite"] = kelvin_to_celsius(T) > LOWER_BAINITE_BELOW_C
     if section is not None:
-        extra.update(centre_arrival_s=arrival_s, ferrite_pearlite_on_arrival=soft_arrival)
+        extra.update(centre_arrival_s=arrival_s, ferrite_pearlite_on_arrival=soft_arrival,
+                     centre_transformed_on_arrival=centre_transformed)
     rows = _rows(alloy, T, hold_s, ok, governing, extra)
     edges = _edges(margin, T, ok) if 0 < ok.sum() < ok.size else []
     lower = ok & ~extra["upper_bainite"]
@@ -352,7 +360,13 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
     options = {"max_hold_s": max_hold_s, "margin_K": margin_K, "safety": safety, "target_hv": target_hv,
                "austenitizing_C": start_C, **_worst_note(worst_case)}
     options.update(_section_options(section, arrived))
-    return _result("austemper", alloy, rows, ok, edges, choice, reason, nearest, options)
+    warnings = []
+    if section is not None and choice is not None and centre_transformed[choice] >= TRANSFORMED_ON_THE_WAY:
+        warnings.append(f"at {kelvin_to_celsius(T[choice]):.0f} °C {centre_transformed[choice] * 100:.0f} % of the "
+                        "section's centre transforms before it comes within 5 K of the bath (its heat holds the centre "
+                        "above the bath): that bainite forms hotter than the bath, and the hold counted from the "
+                        "arrival is long on the safe side")
+    return _result("austemper", alloy, rows, ok, edges, choice, reason, nearest, options, warnings)
 
 
 def _austemper_extra(alloy, T, hold_s, start_soft, start_C):

@@ -184,13 +184,13 @@ def _positive(key, value, unit=None):
 MAX_SIZE_M = 2.0
 
 
-def _sizes(size_m):
+def section_sizes(size_m, key="size_m"):
     """Section sizes (thickness or diameter), m, as a flat array: positive, at most
     :data:`MAX_SIZE_M`; a refused size is named in metres (a caller that took millimetres says
     it in those, see :meth:`isokin.InputError.relocated`)."""
-    size = _positive("size_m", size_m, unit="m").ravel()
+    size = _positive(key, size_m, unit="m").ravel()
     if np.any(size > MAX_SIZE_M):
-        raise InputError(None, "size_m", f"must be at most {MAX_SIZE_M:g} m ({MAX_SIZE_M * 1e3:g} mm)",
+        raise InputError(None, key, f"must be at most {MAX_SIZE_M:g} m ({MAX_SIZE_M * 1e3:g} mm)",
                          got=(float(size[size > MAX_SIZE_M][0]), "m"))
     return size
 
@@ -457,7 +457,7 @@ def section(alloy, shape="bar", size_m=0.025, medium_C=60.0, heat_transfer_W_m2K
     _one_steel_or_alloy(alloy)
     whole_number("nodes", nodes, 5, 2000)
     start, medium = _start_and_medium(alloy, start_C, medium_C)
-    size = _sizes(size_m)
+    size = section_sizes(size_m)
     props = properties or ThermalProperties()
     surface = surface_condition(heat_transfer_W_m2K, severity_per_in, htc_table, start, props)
     grid = Grid(shape, size / 2.0, nodes)
@@ -548,7 +548,7 @@ def into_baths(alloy, shape, size_m, baths_C, start_C, heat_transfer_W_m2K=None,
     BathArrival
     """
     _one_steel_or_alloy(alloy)
-    size = _sizes(size_m)
+    size = section_sizes(size_m)
     if size.size != 1:
         raise InputError(None, "size_m", "give one section size here")
     if shape not in SHAPE_EXPONENT:
