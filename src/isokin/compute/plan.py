@@ -18,8 +18,7 @@ from ..products.alloy import check_alloy
 from ..readout import format_duration
 from ..relations.hardness import hardness_of_mixture
 from ..results import PRACTICAL_HORIZON_S, PlanResult
-from .cooling import LUMPED_BIOT_LIMIT as LUMPED_LIMIT
-from .cooling import constant_rate, cool, default_start_C
+from .cooling import LUMPED_BIOT_LIMIT, constant_rate, cool, default_start_C
 from .decomposition import Decomposition, ProductCurve, hold
 from .section import BATH_NODES, CENTRE_WITHIN_K, into_baths, section_sizes
 from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
@@ -43,8 +42,6 @@ DEFAULT_SAFETY = {"austemper": 1.5, "interrupted-quench": 2.0, "anneal": 1.5}
 DEFAULT_BUDGET_S = 8 * 3600.0
 #: Interrupted quench: hold temperatures from Ms + margin up to this much above Ms, K.
 INTERRUPTED_SPAN_K = 60.0
-#: Interrupted quench: the part has equalized when within this of the bath, K.
-EQUALIZED_WITHIN_K = 5.0
 #: Largest margin above Ms, K: far above it no bainite forms, and a window there means a slip.
 MAX_MARGIN_K = 500.0
 #: Largest safety factor on a hold time.
@@ -135,7 +132,7 @@ def _times(alloy, T, names, share):
 
 def _edges(margin, T_scan, ok):
     """Window edges: where ``ok`` changes between scan points, the root of ``margin`` by bisection,
-    every edge at once (one call of ``margin`` per halving: with a section, one batch of baths)."""
+    every edge at once (one call of ``margin`` per halving)."""
     k = np.nonzero(ok[1:] != ok[:-1])[0]
     if k.size == 0:
         return []
@@ -189,7 +186,7 @@ def _section_options(section, arrived):
     if section is None:
         return {}
     how = ("conduction through the section" if arrived.model == "conduction" else
-           f"lumped (Biot below {LUMPED_LIMIT:g})")
+           f"lumped (Biot below {LUMPED_BIOT_LIMIT:g})")
     return {"shape": section["shape"], "size_m": section["size_m"], "surface": arrived.surface,
             "biot_number": arrived.biot_number, "cooling_model": how,
             **({"section_nodes": BATH_NODES} if arrived.model == "conduction" else {})}
