@@ -1,8 +1,10 @@
 """Times the section and end-quench solvers, and a batch of sections against a loop over them.
 
 Prints: a 50-node bar through the whole quench with kinetics (aim at most 0.3 s), the
-end-quench curve (aim at most 0.5 s), and 100 section sizes in one batch against solving them
-one by one (aim at least 20x). Ratios, not timed tests: the machine is shared.
+end-quench curve (aim at most 0.5 s), 100 section sizes in one batch against solving them
+one by one (aim at least 20x), and the section-aware plans of a 25 mm bar (aim a few seconds),
+whose candidate baths are one batch, against quenching the section into the baths one by one.
+Ratios, not timed tests: the machine is shared.
 """
 
 import time
@@ -11,6 +13,8 @@ from pathlib import Path
 import numpy as np
 
 import isokin
+from isokin.compute.plan import austemper, interrupted_quench
+from isokin.compute.section import into_baths
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -36,6 +40,16 @@ def main():
                          for s in sizes], repeat=1)
     print(f"100 bar sizes, 21 nodes, with kinetics: batch {batch:.2f} s, loop {loop:.2f} s, ratio {loop / batch:.0f}x "
           "(aim >= 20x)")
+    li = isokin.load_alloy(ROOT / "alloys" / "aisi-4140-crmo.toml", kinetics_model="li_1998")
+    bar = {"size_m": 0.025, "severity_per_in": 0.4}
+    plan = best(lambda: austemper(li, **bar))
+    martempering = best(lambda: interrupted_quench(li, **bar))
+    baths = austemper(li, **bar).rows["temperature_C"]
+    batch = best(lambda: into_baths(li, "bar", 0.025, baths, 845.0, severity_per_in=0.4), repeat=1)
+    loop = best(lambda: [into_baths(li, "bar", 0.025, [b], 845.0, severity_per_in=0.4) for b in baths], repeat=1)
+    print(f"plans of a 25 mm bar in salt (H 0.4): austemper {plan:.2f} s, interrupted quench {martempering:.2f} s "
+          f"(aim a few seconds); its {baths.size} baths in one batch {batch:.2f} s, one by one {loop:.2f} s, ratio "
+          f"{loop / batch:.0f}x")
 
 
 if __name__ == "__main__":

@@ -22,19 +22,32 @@ class InputError(ValueError):
 
     The library names keys as the alloy file does (``composition``, ``steel.grain_size_astm``);
     a caller that took the value from elsewhere (a command-line option) names its own key
-    with :meth:`relocated`.
+    with :meth:`relocated`. ``got``, where given, is the value refused as (number, unit),
+    written after the problem, so that a caller that took it in another unit can say it in
+    that unit.
     """
 
-    def __init__(self, source, key, problem):
-        self.source, self.key, self.problem = source, key, problem
+    def __init__(self, source, key, problem, got=None):
+        self.source, self.key, self.problem, self.got = source, key, problem, got
         where = f"{source}: " if source else ""
         at = f"{key}: " if key else ""
-        super().__init__(one_line(f"{where}{at}{problem}"))
+        shown = f", got {got[0]:g} {got[1]}" if got is not None else ""
+        super().__init__(one_line(f"{where}{at}{problem}{shown}"))
 
     def relocated(self, source=None, keys=None):
-        """The same error, from ``source`` and with the key renamed through ``keys``."""
-        key = (keys or {}).get(self.key, self.key)
-        return InputError(source if source is not None else self.source, key, self.problem)
+        """The same error, from ``source`` and with the key renamed through ``keys``: a name,
+        or (name, unit, units per the library's unit) for a value the caller took in another
+        unit (``"size_m": ("--size-mm", "mm", 1000.0)``).
+
+        >>> InputError(None, "size_m", "must be positive", got=(-0.005, "m")).relocated(
+        ...     keys={"size_m": ("--size-mm", "mm", 1000.0)}).args[0]
+        '--size-mm: must be positive, got -5 mm'
+        """
+        key, got = (keys or {}).get(self.key, self.key), self.got
+        if isinstance(key, tuple):
+            key, unit, scale = key
+            got = None if got is None else (got[0] * scale, unit)
+        return InputError(source if source is not None else self.source, key, self.problem, got)
 
 
 def whole_number(key, value, low=0, high=None) -> int:

@@ -28,7 +28,13 @@ class Route(str, Enum):
 #: The library's keys of a plan as this command's options name them.
 _PLAN_KEYS = {"max_hold_s": "--max-hold", "margin_K": "--margin-k", "safety": "--safety", "budget_s": "--budget",
               "route": "--route", "temper_s": "--temper-time", "quench_rate_K_s": "--quench-rate",
-              "target_hv": "--target-hv", "curve": "--curve"}
+              "target_hv": "--target-hv", "curve": "--curve", "worst_case": "--worst-case",
+              "size_m": ("--size-mm", "mm", 1000.0), "thickness_m": ("--thickness-mm", "mm", 1000.0),
+              "severity_per_in": "--severity", "htc_table": "--htc-table", "start_C": "--austenitizing-c"}
+
+#: The section's library keys as options.
+_SECTION_OPTIONS = {"shape": "--shape", "size_m": "--size-mm", "thickness_m": "--thickness-mm",
+                    "heat_transfer_W_m2K": "--htc", "severity_per_in": "--severity", "htc_table": "--htc-table"}
 
 
 @steel_options
@@ -61,13 +67,26 @@ def plan(
                                 "part (without it the part is taken as fully hardened).")] = None,
     allow_embrittlement: Annotated[bool, typer.Option("--allow-embrittlement", metavar="", help="Quench and temper: let tempers "
                                    "in the embrittlement range (250-400 °C) count.")] = False,
+    shape: Annotated[Optional[str], typer.Option("--shape", metavar="plate|bar|sphere", help="Austemper, interrupted "
+                     "quench: the section is a "
+                     "plate (thickness), bar (diameter; the default) or sphere (diameter).")] = None,
+    size_mm: Annotated[Optional[float], typer.Option("--size-mm", parser=decimal_number, metavar="NUMBER",
+                       help="Austemper, interrupted quench: thickness or diameter of the section, mm; with one of "
+                            "--htc, --severity or --htc-table the section is cooled into each bath through its "
+                            "thickness and hold times count from its centre's arrival.")] = None,
     thickness_mm: Annotated[Optional[float], typer.Option("--thickness-mm", parser=decimal_number, metavar="NUMBER",
-                            help="Interrupted quench: section thickness, mm, for the equalizing time.")] = None,
+                            help="As --size-mm, a plate's unless --shape says otherwise (the earlier name).")] = None,
     htc: Annotated[Optional[float], typer.Option("--htc", parser=decimal_number, metavar="W_PER_M2K",
-                   help="Interrupted quench: heat-transfer coefficient of the bath, W/(m2 K).")] = None,
+                   help="With a section: heat-transfer coefficient of the bath, W/(m2 K).")] = None,
+    severity: Annotated[Optional[float], typer.Option("--severity", parser=decimal_number, metavar="H_PER_IN",
+                        help="With a section: Grossmann quench severity H of the bath, 1/in.")] = None,
+    htc_table: Annotated[Optional[Path], typer.Option("--htc-table", metavar="FILE",
+                         help="With a section: CSV of the bath's h against the surface temperature "
+                              "(temperature_C,htc_W_m2K).")] = None,
     xlsx: Annotated[bool, typer.Option("--xlsx", metavar="", help="Also write <stem>-plan.xlsx (plan, summary, curves).")] = False,
-    worst_case: Annotated[bool, typer.Option("--worst-case", metavar="", help="Plan on every heat of the composition range "
-                                             "(the file's composition_range table, or --range), not the nominal.")] = False,
+    worst_case: Annotated[bool, typer.Option("--worst-case", metavar="", help="Plan on every heat of the composition "
+                                             "range (the file's composition_range table, or --range), not the "
+                                             "nominal.")] = False,
     range_text: RangeOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,
@@ -96,7 +115,19 @@ def plan(
             options["safety"] = safety
         if worst_case:
             options["worst_case"] = heats(alloy, range_text, samples, seed)
-        status(f"planning the {route.value} window" + (" over the heats of the range" if worst_case else ""))
+        section = {k: v for k, v in (("shape", shape), ("size_m", None if size_mm is None else size_mm / 1000),
+                                     ("thickness_m", None if thickness_mm is None else thickness_mm / 1000),
+                                     ("heat_transfer_W_m2K", htc), ("severity_per_in", severity),
+                                     ("htc_table", htc_table)) if v is not None}
+        if section and route not in (Route.austemper, Route.interrupted_quench):
+            raise InputError(None, _SECTION_OPTIONS[next(iter(section))], "a section goes with the austemper and "
+                             "interrupted-quench routes")
+        if "htc_table" in section:
+            from ..io.tables import read_htc_table
+
+            section["htc_table"] = read_htc_table(htc_table, key="--htc-table")
+        status(f"planning the {route.value} window" + (" over the heats of the range" if worst_case else "")
+               + (" through the section" if section else ""))
         if route == Route.quench_and_temper:
             return _quench_and_temper(alloy, stem, target, options)
         if route == Route.austemper:
@@ -105,12 +136,10 @@ def plan(
             hold_limit = _duration_option(max_hold, "--max-hold")
             options.update({k: v for k, v in (("max_hold_s", hold_limit), ("margin_K", margin_k),
                                               ("target_hv", None if target is None else target[0])) if v is not None})
-            result = planning.austemper(alloy, **options)
+            result = planning.austemper(alloy, **options, **section)
         elif route == Route.interrupted_quench:
-            options.update({k: v for k, v in (("margin_K", margin_k),
-                                              ("thickness_m", None if thickness_mm is None else thickness_mm / 1000),
-                                              ("heat_transfer_W_m2K", htc)) if v is not None})
-            result = planning.interrupted_quench(alloy, **options)
+            options.update({"margin_K": margin_k} if margin_k is not None else {})
+            result = planning.interrupted_quench(alloy, **options, **section)
         else:
             limit = _duration_option(budget, "--budget")
             options.update({"budget_s": limit} if limit is not None else {})
@@ -179,16 +208,31 @@ def _duration_option(text: Optional[str], option: str) -> Optional[float]:
     return None if text is None else duration(text, option)  # the plan refuses a limit that is not above 0
 
 
-#: Plan columns as printed: heading, and whether the value is a duration.
-_PLAN_COLUMNS = {"required_rate_K_s": ("quench K/s", False), "hardness_HV": ("HV", False),
-                 "embrittlement_range": ("embrittles", None),
-                 "start_any_s": ("first 1 % at", True), "equalize_s": ("equalizes in", True)}
+#: Plan columns as printed: heading, and how the value is written.
+_PLAN_COLUMNS = {"centre_arrival_s": ("centre in", "duration"), "equalize_s": ("equalizes in", "duration"),
+                 "ferrite_pearlite_on_arrival": ("F+P by then", "percent"),
+                 "centre_transformed_on_arrival": ("centre done", "percent"),
+                 "formed_on_arrival": ("formed by then", "percent"), "start_used_on_arrival": ("start used", "percent"),
+                 "required_rate_K_s": ("quench K/s", "number"), "hardness_HV": ("HV", "number"),
+                 "embrittlement_range": ("embrittles", "flag"), "start_any_s": ("first 1 % at", "duration")}
+
+
+def _cell(value, kind):
+    if kind == "flag":
+        return "yes" if value else ""
+    if not math.isfinite(value):
+        return "-"
+    return {"duration": format_duration, "percent": lambda v: f"{v * 100:.2g} %"}.get(kind, lambda v: f"{v:.3g}")(value)
 
 
 def _print_plan(result, units):
     rows = result.rows
     typer.echo(f"{result.alloy}: {result.route} plan")
     options = result.options
+    if "cooling_model" in options:
+        typer.echo(f"  section: {options['shape']} {options['size_m'] * 1e3:g} mm, {options['surface']}; Biot "
+                   f"{options['biot_number']:.2g}: {options['cooling_model']}; times count from the centre's arrival "
+                   "within 5 K of the bath")
     if "as_quenched_martensite" in options:
         hv = options.get("as_quenched_HV")
         typer.echo(f"  quench at {options['quench_rate_K_s']:g} K/s: {options['as_quenched_martensite'] * 100:.0f} % "
@@ -199,14 +243,7 @@ def _print_plan(result, units):
                + "  governed by")
     feasible = [k for k, ok in enumerate(rows["feasible"]) if ok] or list(range(len(rows["feasible"])))
     for k in feasible[:: max(1, len(feasible) // 12)]:
-        cells = []
-        for c in extra:
-            v = float(rows[c][k])
-            if _PLAN_COLUMNS[c][1] is None:
-                text = "yes" if v else ""
-            else:
-                text = (format_duration(v) if _PLAN_COLUMNS[c][1] else f"{v:.3g}") if math.isfinite(v) else "-"
-            cells.append(f"{text:>12}")
+        cells = [f"{_cell(float(rows[c][k]), _PLAN_COLUMNS[c][1]):>12}" for c in extra]
         hold_s = float(rows["hold_time_s"][k])
         typer.echo(f"  {in_units(float(rows['temperature_C'][k]), units):>10}  {'yes' if rows['feasible'][k] else 'no':>3}"
                    f"  {format_duration(hold_s) if math.isfinite(hold_s) else 'never':>10}  " + "  ".join(cells)

@@ -15,8 +15,8 @@ from .options import (AlloyArg, FigureFormat, FormatOpt, Inline, OutOpt, Overwri
 from .runner import Drawing, Outcome, load, run
 from .status import status
 
-#: Library keys of these commands as their options.
-KEYS = {"size_m": "--size-mm", "severity_per_in": "--severity", "htc_table": "--htc-table", "nodes": "--nodes",
+#: Library keys of these commands as their options (a size refused is said in millimetres, as given).
+KEYS = {"size_m": ("--size-mm", "mm", 1000.0), "severity_per_in": "--severity", "htc_table": "--htc-table", "nodes": "--nodes",
         "heat_transfer_W_m2K": "--htc", "water_C": "--water-c", "band": "--band"}
 
 

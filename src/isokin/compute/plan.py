@@ -18,9 +18,10 @@ from ..products.alloy import check_alloy
 from ..readout import format_duration
 from ..relations.hardness import hardness_of_mixture
 from ..results import PRACTICAL_HORIZON_S, PlanResult
-from .cooling import constant_rate, cool, default_start_C, lumped_time_constant
+from .cooling import LUMPED_BIOT_LIMIT, constant_rate, cool, default_start_C
 from .decomposition import Decomposition, ProductCurve, hold
 from .spread import sampled_heats
+from .section import BATH_NODES, CENTRE_WITHIN_K, into_baths, section_sizes
 from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
 
 #: Above about this the bainite of an austempering hold is upper bainite, coarser and less
@@ -28,6 +29,9 @@ from .temper import EMBRITTLEMENT_RANGE_C, temper, temper_for_hardness
 LOWER_BAINITE_BELOW_C = 400.0
 #: Austempering: ferrite + pearlite after the hold must stay under this share of the part.
 SOFT_LIMIT = 0.01
+#: Austempering a section: a warning where more than this share of the centre transforms before
+#: the centre reaches the bath.
+TRANSFORMED_ON_THE_WAY = 0.1
 #: Window edges are refined to this, K.
 EDGE_TOLERANCE_K = 0.01
 #: Hold temperatures scanned, K apart.
@@ -39,8 +43,6 @@ DEFAULT_SAFETY = {"austemper": 1.5, "interrupted-quench": 2.0, "anneal": 1.5}
 DEFAULT_BUDGET_S = 8 * 3600.0
 #: Interrupted quench: hold temperatures from Ms + margin up to this much above Ms, K.
 INTERRUPTED_SPAN_K = 60.0
-#: Interrupted quench: the part has equalized when within this of the bath, K.
-EQUALIZED_WITHIN_K = 5.0
 #: Largest margin above Ms, K: far above it no bainite forms, and a window there means a slip.
 MAX_MARGIN_K = 500.0
 #: Largest safety factor on a hold time.
@@ -130,19 +132,65 @@ def _times(alloy, T, names, share):
 
 
 def _edges(margin, T_scan, ok):
-    """Window edges: where ``ok`` changes between scan points, the root of ``margin`` by bisection."""
-    edges = []
-    for k in np.nonzero(ok[1:] != ok[:-1])[0]:
-        lo, hi = T_scan[k], T_scan[k + 1]
-        inside_low = ok[k]
-        while hi - lo > EDGE_TOLERANCE_K:
-            mid = 0.5 * (lo + hi)
-            if (float(margin(np.array([mid]))[0]) >= 0.0) == inside_low:
-                lo = mid
-            else:
-                hi = mid
-        edges.append(lo if inside_low else hi)
-    return edges
+    """Window edges: where ``ok`` changes between scan points, the root of ``margin`` by bisection,
+    every edge at once (one call of ``margin`` per halving)."""
+    k = np.nonzero(ok[1:] != ok[:-1])[0]
+    if k.size == 0:
+        return []
+    lo, hi, inside_low = T_scan[k].astype(float), T_scan[k + 1].astype(float), ok[k]
+    while np.max(hi - lo) > EDGE_TOLERANCE_K:
+        mid = 0.5 * (lo + hi)
+        keep_low = (margin(mid) >= 0.0) == inside_low
+        lo, hi = np.where(keep_low, mid, lo), np.where(keep_low, hi, mid)
+    return list(np.where(inside_low, lo, hi))
+
+
+def _section(shape, size_m, thickness_m, heat_transfer_W_m2K, severity_per_in, htc_table, section_model,
+             worst_case):
+    """The section a plan quenches into its baths, as :func:`isokin.compute.section.into_baths`
+    takes it, or None without one. ``thickness_m`` is ``size_m`` under its earlier name (a
+    plate's, unless ``shape`` says otherwise); a size goes with exactly one surface condition."""
+    if size_m is not None and thickness_m is not None:
+        raise InputError(None, "thickness_m", "give the section's size once: size_m (thickness_m is the same)")
+    size_key = "size_m" if thickness_m is None else "thickness_m"
+    size = size_m if thickness_m is None else thickness_m
+    surface = {k: v for k, v in (("heat_transfer_W_m2K", heat_transfer_W_m2K), ("severity_per_in", severity_per_in),
+                                 ("htc_table", htc_table)) if v is not None}
+    if size is None:
+        if surface:
+            raise InputError(None, "size_m", "give the section's size with the bath's surface condition")
+        if shape is not None:
+            raise InputError(None, "shape", "goes with a section size")
+        return None
+    if not surface:
+        raise InputError(None, size_key, "give the bath's surface condition with the section: a heat-transfer "
+                         "coefficient, a Grossmann severity or a table of h against the surface temperature")
+    size = section_sizes(size, size_key)
+    if size.size != 1:
+        raise InputError(None, size_key, "give one section size")
+    if worst_case is not None:
+        raise InputError(None, "worst_case", "a worst-case plan over the heats of a range does not take a section "
+                         "(yet): plan the section on the nominal analysis, or the range without a section")
+    return {"shape": shape or ("plate" if thickness_m is not None else "bar"), "size_m": float(size[0]),
+            "model": section_model, **surface}
+
+
+def _arrival(alloy, section, start_C, T):
+    """The section quenched from ``start_C`` into baths at T (K): one batch of the conduction
+    solver (or of the lumped body below Biot 0.1)."""
+    return into_baths(alloy, section["shape"], section["size_m"], kelvin_to_celsius(T), start_C,
+                      **{k: v for k, v in section.items() if k not in ("shape", "size_m")})
+
+
+def _section_options(section, arrived):
+    """What a plan records of its section: shape, size, surface, and which cooling model ran."""
+    if section is None:
+        return {}
+    how = ("conduction through the section" if arrived.model == "conduction" else
+           f"lumped (Biot below {LUMPED_BIOT_LIMIT:g})")
+    return {"shape": section["shape"], "size_m": section["size_m"], "surface": arrived.surface,
+            "biot_number": arrived.biot_number, "cooling_model": how,
+            **({"section_nodes": BATH_NODES} if arrived.model == "conduction" else {})}
 
 
 def required_rates(alloy, start_C, hold_C, avoid=("ferrite", "pearlite")):
@@ -195,10 +243,20 @@ def _hardness(alloy, fractions, rate_K_s, carbon):
 
 
 def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, safety=None, target_hv=None,
-              austenitizing_C=None, worst_case=None):
+              austenitizing_C=None, worst_case=None, shape=None, size_m=None, heat_transfer_W_m2K=None,
+              severity_per_in=None, htc_table=None, section_model="auto"):
     """The austempering window: hold temperatures above Ms + margin where bainite completes
     (99 % of what can transform) within the maximum hold divided by the safety factor, and
     where neither ferrite nor pearlite reaches 1 % of the part by the end of the hold.
+
+    With a section (``size_m``, m, of a ``shape`` "plate", "bar" or "sphere", default bar, and
+    the bath's surface condition: ``heat_transfer_W_m2K``, ``severity_per_in`` or ``htc_table``,
+    as :func:`isokin.section` takes them) the section is quenched into every candidate bath by
+    the conduction model (one batch; the lumped body where its Biot number is below 0.1,
+    or as ``section_model`` says): ferrite + pearlite formed by the time the centre comes
+    within 5 K of the bath (the larger of centre and surface) count with those of the hold,
+    and the hold counts from the centre's arrival (hold = arrival + completion x safety; the
+    bainite formed before it is not credited).
 
     Returns
     -------
@@ -206,20 +264,24 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
         Each candidate temperature with its hold time (completion x safety), when a
         diffusional product would start, the microstructure and hardness after the hold and
         quench, and the slowest quench to the bath that keeps ferrite + pearlite under 1 %;
-        the window, its edges, and the recommendation with the reason. With
+        with a section, the centre's arrival and the ferrite + pearlite formed by then; the
+        window, its edges, and the recommendation with the reason. With
         ``worst_case`` (True: the alloy's own composition range, sampled as ``plan
-        --worst-case`` does; or a batch of the alloy's heats) a temperature is feasible only where it is for every heat, hold times are the
+        --worst-case`` does; or a batch of the alloy's heats) a temperature is feasible only
+        where it is for every heat, hold times are the
         longest over the heats and Ms the highest; the other columns stay the nominal's.
     """
     _steel_only(alloy, "austemper")
     worst_case = _heats(alloy, worst_case)
     safety = DEFAULT_SAFETY["austemper"] if safety is None else safety
     _checked(worst_case, safety, margin_K, max_hold_s, target_hv=target_hv)
+    section = _section(shape, size_m, None, heat_transfer_W_m2K, severity_per_in, htc_table, section_model, worst_case)
+    start_C = _start_C(alloy, austenitizing_C)
     model = worst_case if worst_case is not None else alloy
     ms = float(np.max(model.critical_K["Ms"]))
     bs = float(np.min(model.critical_K["Bs"]))
     low = ms + margin_K
-    T = np.arange(low, max(bs, low + SCAN_STEP_K), SCAN_STEP_K)
+    T = T_scan = np.arange(low, max(bs, low + SCAN_STEP_K), SCAN_STEP_K)
     soft = ("ferrite", "pearlite")
 
     def block(T):
@@ -229,24 +291,46 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
         soft_share = np.where(np.isfinite(hold_s), sum(shares[n] for n in soft if n in shares), 1.0)
         return _worst(hold_s, model), _worst(soft_share, model)
 
+    # the section quenched into every bath of the scan: one batch; between the scan's baths (the
+    # edges' bisection) its arrival and ferrite + pearlite are read linearly, so that an edge
+    # never rests on another batch's time steps
+    arrived = _arrival(alloy, section, start_C, T) if section is not None else None
+    if arrived is not None:
+        scan_soft = sum(arrived.on_arrival[n] for n in soft if n in arrived.on_arrival).max(axis=-1)
+        centre_transformed = sum(arrived.on_arrival[p.name] for p in alloy.products)[:, 0]
+
     def parts(T):
-        return _in_blocks(block, model, T)
+        """(hold, ferrite + pearlite in all, the isothermal hold, the centre's arrival, ferrite +
+        pearlite on arrival) at T; the last two 0 without a section."""
+        hold_s, soft_share = _in_blocks(block, model, T)
+        arrival_s = soft_arrival = np.zeros(np.shape(T))
+        if arrived is not None:
+            arrival_s, soft_arrival = np.interp(T, T_scan, arrived.arrival_s), np.interp(T, T_scan, scan_soft)
+        return hold_s + arrival_s, soft_share + soft_arrival, hold_s, arrival_s, soft_arrival
 
     def margin(T, known=None):
-        hold_s, soft_share = parts(T) if known is None else known
+        hold_s, soft_share = (parts(T) if known is None else known)[:2]
         with np.errstate(divide="ignore", invalid="ignore"):
             m = np.minimum(np.log(max_hold_s) - np.log(hold_s), np.log(SOFT_LIMIT) - np.log(soft_share))
         return np.where(T >= low, np.nan_to_num(m, nan=-np.inf, posinf=np.inf), -np.inf)
 
-    hold_s, soft_share = parts(T)
+    scan = parts(T)
+    hold_s, soft_share, isothermal_s, arrival_s, soft_arrival = scan
     start_soft = _worst(_times(model, _over(model, T), soft, 0.01), model, np.min)
-    ok = margin(T, (hold_s, soft_share)) >= 0.0
+    ok = margin(T, scan) >= 0.0
     with np.errstate(divide="ignore", invalid="ignore"):
         by_time = np.log(max_hold_s / hold_s) <= np.log(SOFT_LIMIT / soft_share)
-    governing = np.where(by_time, "bainite completion x safety vs the maximum hold",
-                         "ferrite + pearlite after the hold vs 1 %")
-    extra = _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C)
+    if section is None:
+        governing = np.where(by_time, "bainite completion x safety vs the maximum hold",
+                             "ferrite + pearlite after the hold vs 1 %")
+    else:
+        governing = np.where(by_time, "centre arrival + bainite completion x safety vs the maximum hold",
+                             "ferrite + pearlite by the centre's arrival and the hold vs 1 %")
+    extra = _austemper_extra(alloy, T, isothermal_s, start_soft, start_C)
     extra["upper_bainite"] = kelvin_to_celsius(T) > LOWER_BAINITE_BELOW_C
+    if section is not None:
+        extra.update(centre_arrival_s=arrival_s, ferrite_pearlite_on_arrival=soft_arrival,
+                     centre_transformed_on_arrival=centre_transformed)
     rows = _rows(alloy, T, hold_s, ok, governing, extra)
     edges = _edges(margin, T, ok) if 0 < ok.sum() < ok.size else []
     lower = ok & ~extra["upper_bainite"]
@@ -256,73 +340,100 @@ def austemper(alloy, max_hold_s=DEFAULT_MAX_HOLD_S, margin_K=DEFAULT_MARGIN_K, s
     nearest = None
     if not ok.any():
         finite = np.isfinite(hold_s)
-        if finite.any() and np.all(soft_share[finite] >= SOFT_LIMIT):
+        if section is not None and finite.any() and np.all(soft_arrival[finite] >= SOFT_LIMIT):
+            nearest = (f"no bath temperature works for this section: ferrite + pearlite reach at least "
+                       f"{float(np.min(soft_arrival[finite])) * 100:.1f} % of it by the time its centre comes within "
+                       f"{CENTRE_WITHIN_K:g} K of the bath, at every temperature above Ms + margin; a thinner section, "
+                       "a more severe bath (more agitation) or a more hardenable steel is the nearer change")
+        elif finite.any() and np.all(soft_share[finite] >= SOFT_LIMIT):
             worst = float(np.min(soft_share[finite]))
             nearest = (f"no hold temperature works: ferrite + pearlite reach at least {worst * 100:.1f} % of the part "
                        "before bainite completes at every temperature above Ms + margin; a quench and temper, a "
                        "richer alloy or a tighter composition range is the nearer route")
         elif finite.any():
             fastest = float(np.min(hold_s[finite]))
-            nearest = (f"no hold temperature works within the maximum hold: the shortest complete hold (x {safety:g}) "
+            nearest = (f"no hold temperature works within the maximum hold: the shortest complete hold (x {safety:g}"
+                       f"{', from the centre reaching the bath' if section is not None else ''}) "
                        f"is {_duration(fastest)}; allow that much")
         else:
             nearest = "no hold temperature works: bainite does not complete above Ms + margin"
-    return _result("austemper", alloy, rows, ok, edges, choice, reason, nearest,
-                   {"max_hold_s": max_hold_s, "margin_K": margin_K, "safety": safety, "target_hv": target_hv,
-                    "austenitizing_C": _start_C(alloy, austenitizing_C), **_worst_note(worst_case)})
+    options = {"max_hold_s": max_hold_s, "margin_K": margin_K, "safety": safety, "target_hv": target_hv,
+               "austenitizing_C": start_C, **_worst_note(worst_case)}
+    options.update(_section_options(section, arrived))
+    warnings = []
+    if section is not None and choice is not None and centre_transformed[choice] >= TRANSFORMED_ON_THE_WAY:
+        warnings.append(f"at {kelvin_to_celsius(T[choice]):.0f} °C {centre_transformed[choice] * 100:.0f} % of the "
+                        "section's centre transforms before it comes within 5 K of the bath (its heat holds the centre "
+                        "above the bath): that bainite forms hotter than the bath, and the hold counted from the "
+                        "arrival is long on the safe side")
+    return _result("austemper", alloy, rows, ok, edges, choice, reason, nearest, options, warnings)
 
 
-def _austemper_extra(alloy, T, hold_s, start_soft, austenitizing_C):
+def _austemper_extra(alloy, T, hold_s, start_soft, start_C):
     T_C = kelvin_to_celsius(T)
     finite = np.where(np.isfinite(hold_s), hold_s, 1.0)
     structure, carbon = _microstructure(alloy, T_C, finite)
-    rates = required_rates(alloy, _start_C(alloy, austenitizing_C), T_C)
+    rates = required_rates(alloy, start_C, T_C)
     hv = _hardness(alloy, structure, rates, carbon)
     return {"ferrite_pearlite_alone_1pct_s": start_soft, "required_rate_K_s": rates, "hardness_HV": hv,
             **{f"after_{name}": v for name, v in structure.items()}}
 
 
 def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPAN_K, thickness_m=None,
-                       heat_transfer_W_m2K=None, shape="plate", austenitizing_C=None, worst_case=None):
+                       heat_transfer_W_m2K=None, shape=None, austenitizing_C=None, worst_case=None, size_m=None,
+                       severity_per_in=None, htc_table=None, section_model="auto"):
     """Interrupted quench (martempering): for bath temperatures just above Ms, the longest
     equalizing time before 1 % of any product forms, divided by the safety factor.
 
-    With a section (thickness and heat-transfer coefficient) the lumped time to come within
-    5 K of the bath is compared with the safe time, and a warning given where it exceeds it.
+    With a section (``size_m``, m, of a ``shape`` "plate", "bar" or "sphere", default bar;
+    ``thickness_m`` is the same size, of a plate by default; and the bath's surface
+    condition: ``heat_transfer_W_m2K``, ``severity_per_in`` or ``htc_table``) the section is
+    quenched into every candidate bath by the conduction model (one batch; the lumped body
+    where its Biot number is below 0.1, or as ``section_model`` says). The safe time then
+    counts from the centre's arrival within 5 K of the bath: the model's start time at the
+    bath over the safety factor, less what the quench used of it (Scheil's sum of dt /
+    t_start(T) up to the arrival, the largest anywhere in the section, in full). A bath is
+    feasible only where that is positive and no product has reached 1 % at the centre or the
+    surface by the arrival; ``equalize_s`` is the arrival.
     """
     _steel_only(alloy, "interrupted-quench")
     worst_case = _heats(alloy, worst_case)
     safety = DEFAULT_SAFETY["interrupted-quench"] if safety is None else safety
     _checked(worst_case, safety, margin_K)
+    section = _section(shape, size_m, thickness_m, heat_transfer_W_m2K, severity_per_in, htc_table, section_model,
+                       worst_case)
     model = worst_case if worst_case is not None else alloy
     ms = float(np.max(model.critical_K["Ms"]))
     T = np.arange(ms + margin_K, ms + margin_K + span_K + 0.5 * SCAN_STEP_K, SCAN_STEP_K)
     start = _worst(Decomposition(model, _over(model, T)).time_to_total(0.01), model, np.min)
     safe = start / safety
+    ok = np.isfinite(safe) & (safe > 0)
+    extra = {"start_any_s": start}
+    governing = np.full(T.shape, "start of any product (1 %) / safety")
     warnings = []
-    equalize = None
-    if thickness_m is not None or heat_transfer_W_m2K is not None:
-        if thickness_m is None or heat_transfer_W_m2K is None:
-            raise InputError(None, "thickness_m", "give the section thickness and the heat-transfer coefficient together")
-        tau, biot = lumped_time_constant(thickness_m, heat_transfer_W_m2K, shape=shape)
-        aus = _start_C(alloy, austenitizing_C)
-        equalize = tau * np.log(np.maximum(aus - kelvin_to_celsius(T), EQUALIZED_WITHIN_K) / EQUALIZED_WITHIN_K)
-        if np.any(equalize > safe):
-            warnings.append("the section needs longer to equalize than the safe time at "
-                            f"{int(np.count_nonzero(equalize > safe))} of {T.size} bath temperatures: choose a hotter "
-                            "bath, a thinner section or a faster quench")
-        if biot > 0.1:
-            warnings.append(f"the Biot number of the section is {biot:.2g}: the core equalizes later than the lumped "
-                            "estimate")
-    ok = np.isfinite(safe) & (safe > 0) & ((equalize <= safe) if equalize is not None else True)
-    rows = _rows(alloy, T, safe, ok, np.full(T.shape, "start of any product (1 %) / safety"),
-                 {"start_any_s": start, **({"equalize_s": equalize} if equalize is not None else {})})
+    arrived = None
+    if section is not None:
+        arrived = _arrival(alloy, section, _start_C(alloy, austenitizing_C), T)
+        formed = sum(arrived.on_arrival[p.name] for p in alloy.products).max(axis=-1)
+        safe = np.maximum(start * (1.0 / safety - arrived.start_used), 0.0)
+        ok = np.isfinite(safe) & (safe > 0) & (formed < SOFT_LIMIT)
+        extra.update(equalize_s=arrived.arrival_s, start_used_on_arrival=arrived.start_used,
+                     formed_on_arrival=formed)
+        governing = np.full(T.shape, "start (1 %) / safety from the centre's arrival, less what the quench used")
+        late = int(np.count_nonzero(~ok & np.isfinite(start)))
+        if 0 < late < T.size:
+            warnings.append(f"at {late} of {T.size} bath temperatures the section's surface (or centre) would start "
+                            "transforming, by the model over the safety factor, before the centre reaches the bath: "
+                            "choose a hotter bath, a thinner section or a more severe quench")
+    rows = _rows(alloy, T, safe, ok, governing, extra)
     choice, reason = _choose(rows, ok, None, "longest safe time", prefer="longest")
     nearest = None if ok.any() else ("no bath temperature gives the section time to equalize before 1 % of any "
-                                     "product forms: use a thinner section, a stronger quench or a hotter bath")
+                                     "product forms: use a thinner section, a stronger quench or a hotter bath"
+                                     if section is not None else "no bath temperature has time before 1 % of any "
+                                     "product forms")
     return _result("interrupted-quench", alloy, rows, ok, [], choice, reason, nearest,
-                   {"margin_K": margin_K, "safety": safety, "span_K": span_K, "thickness_m": thickness_m,
-                    "heat_transfer_W_m2K": heat_transfer_W_m2K, "shape": shape, **_worst_note(worst_case)}, warnings)
+                   {"margin_K": margin_K, "safety": safety, "span_K": span_K, **_section_options(section, arrived),
+                    **_worst_note(worst_case)}, warnings)
 
 
 def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):

@@ -9,6 +9,7 @@ from __future__ import annotations
 import difflib
 from pathlib import Path
 
+from ..compute.section import hardness_band
 from ..compute.spread import check_ranges
 from ..errors import InputError
 from ..products.critical import BS_METHODS, MS_METHODS
@@ -25,7 +26,7 @@ from ..relations.composition import ELEMENTS
 from .alloy_file import load_alloy
 from .schema import Key, read_table
 
-TABLES = ("composition", "steel", "composition_range")
+TABLES = ("composition", "steel", "composition_range", "hardenability_band")
 
 STEEL_KEYS = {
     "grain_size_astm": Key(float, required=True, low=GRAIN_SIZE_RANGE[0], high=GRAIN_SIZE_RANGE[1]),
@@ -95,6 +96,12 @@ def load(source: Path, head: dict, data: dict):
     if "composition_range" in data:
         read_ranges(source, data["composition_range"])  # checked now, used by spread and worst-case plans
         inputs["composition_range"] = data["composition_range"]
+    if "hardenability_band" in data:
+        try:
+            hardness_band(data["hardenability_band"])  # checked now, used by the end-quench test
+        except InputError as exc:
+            raise exc.relocated(source) from None
+        inputs["hardenability_band"] = data["hardenability_band"]
     try:
         return steel(composition, options["grain_size_astm"], name=head["name"],
                      austenitizing_temperature_C=options.get("austenitizing_temperature_C"),

@@ -9,6 +9,7 @@ from pathlib import Path
 import numpy as np
 
 from ..compute.cooling import TEMPERATURE_C, measured
+from ..compute.section import BAND_DISTANCE_UNITS, band_rows_wrong
 from ..constants import celsius_to_kelvin
 from ..errors import InputError
 from ..relations.driving_force import DrivingForceTable
@@ -124,8 +125,6 @@ def read_tempering_curve(path: Path, source=None, key="curve"):
 
 
 BAND_COLUMNS = ("hrc_min", "hrc_max")
-#: The distance column of a hardenability band: sixteenths of an inch or millimetres from the quenched end.
-BAND_DISTANCES = {"distance_sixteenths_in": 0.0254 / 16.0, "distance_mm": 1e-3}
 
 
 def read_hardness_band(path: Path, source=None, key="band"):
@@ -134,16 +133,16 @@ def read_hardness_band(path: Path, source=None, key="band"):
     text = read_input_file(source, key, path, "band file")
     header = next((line for line in text.splitlines() if line.strip() and not line.lstrip().startswith("#")), "")
     names = [h.strip() for h in header.split(",")]
-    unit = next((name for name in BAND_DISTANCES if name in names), None)
+    unit = next((name for name in BAND_DISTANCE_UNITS if name in names), None)
     if unit is None:
         raise InputError(source, key, f"band file {path} needs a distance column: distance_sixteenths_in or "
                          "distance_mm")
     rows = []
     for line, (d, lo, hi) in _numeric_rows(source, key, path, "band file", (unit, *BAND_COLUMNS)):
-        if not (0.0 < d * BAND_DISTANCES[unit] <= 0.1 and 0.0 <= lo <= hi <= 70.0):
+        if band_rows_wrong(np.array(d * BAND_DISTANCE_UNITS[unit]), np.array(lo), np.array(hi)):
             raise InputError(source, key, f"band file {path}, line {line}: the distance must lie on the 100 mm bar "
                              "and 0 <= hrc_min <= hrc_max <= 70")
-        rows.append((d * BAND_DISTANCES[unit], lo, hi))
+        rows.append((d * BAND_DISTANCE_UNITS[unit], lo, hi))
     if not rows:
         raise InputError(source, key, f"band file {path} has no rows")
     return tuple(np.array(v) for v in zip(*sorted(rows)))
