@@ -63,7 +63,7 @@ def test_no_window_explains_itself_and_is_an_answer(tmp_path):
     code, out, err, _ = run_main("plan", ROOT / "alloys" / "aisi-4340-nicrmo.toml", "--route", "austemper",
                                  "--max-hold", "20s", "--out", tmp_path)
     assert code == 0 and "no hold temperature works" in out
-    data = json.loads((tmp_path / "aisi-4340-nicrmo-plan.json").read_text())
+    data = json.loads((tmp_path / "aisi-4340-nicrmo-plan-austemper.json").read_text())
     assert data["window_C"] is None and data["recommendation"] is None and data["no_window"]
     short = plan.austemper(AISI_4140, max_hold_s=10.0)
     assert short.window_C is None and "allow that much" in short.no_window
@@ -113,12 +113,12 @@ def test_the_numbers_agree_in_table_json_csv_xlsx_and_figure(tmp_path):
     code, out, err, _ = run_main("plan", ROOT / "alloys" / "aisi-4140-crmo.toml", "--route", "austemper",
                                  "--max-hold", "2h", "--xlsx", "--out", tmp_path)
     assert code == 0, err
-    data = json.loads((tmp_path / "aisi-4140-crmo-plan.json").read_text())
+    data = json.loads((tmp_path / "aisi-4140-crmo-plan-austemper.json").read_text())
     rec = data["recommendation"]
-    rows = list(csv.DictReader((tmp_path / "aisi-4140-crmo-plan.csv").open()))
+    rows = list(csv.DictReader((tmp_path / "aisi-4140-crmo-plan-austemper.csv").open()))
     chosen = min(rows, key=lambda r: abs(float(r["temperature_C"]) - rec["temperature_C"]))
     assert float(chosen["hold_time_s"]) == pytest.approx(rec["hold_time_s"], rel=1e-7)
-    book = pd.read_excel(tmp_path / "aisi-4140-crmo-plan.xlsx", sheet_name=None)
+    book = pd.read_excel(tmp_path / "aisi-4140-crmo-plan-austemper.xlsx", sheet_name=None)
     assert set(book) == {"summary", "plan", "units", "inputs", "curves"}
     plan_sheet = book["plan"]
     assert plan_sheet["hold_time_readable"][0] and dict(zip(book["units"]["column"], book["units"]["unit"]))[
@@ -126,7 +126,7 @@ def test_the_numbers_agree_in_table_json_csv_xlsx_and_figure(tmp_path):
     k = int(np.argmin(np.abs(plan_sheet["temperature_C"] - rec["temperature_C"])))
     assert plan_sheet["hold_time_s"][k] == pytest.approx(rec["hold_time_s"], rel=1e-9)
     assert f"recommended: {rec['temperature_C']:.1f} °C" in out
-    assert (tmp_path / "aisi-4140-crmo-plan.png").stat().st_size > 10_000
+    assert (tmp_path / "aisi-4140-crmo-plan-austemper.png").stat().st_size > 10_000
     assert "molten salt" in out
 
 

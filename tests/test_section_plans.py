@@ -219,7 +219,7 @@ def test_plan_with_a_section_says_which_cooling_model_ran(tmp_path):
     assert done.returncode == 0, done.stderr
     assert "section: bar 25 mm" in done.stdout and "conduction through the section" in done.stdout
     assert "centre in" in done.stdout
-    data = json.loads((tmp_path / "aisi-4140-crmo-plan.json").read_text())
+    data = json.loads((tmp_path / "aisi-4140-crmo-plan-austemper.json").read_text())
     assert data["options"]["cooling_model"] == "conduction through the section"
     assert all("centre_arrival_s" in row for row in data["candidates"])
     # the earlier options of the interrupted quench still work: a plate, here thin enough to be lumped

@@ -111,7 +111,7 @@ def test_spread_and_compare_as_a_user_runs_them(tmp_path):
     code, out, err, _ = run_main("plan", ROOT / "alloys" / "aisi-4340-nicrmo.toml", "--route", "austemper",
                                  "--worst-case", "--samples", "32", "--out", tmp_path)
     assert code == 0, err
-    assert json.loads((tmp_path / "aisi-4340-nicrmo-plan.json").read_text())["options"]["worst_case_heats"] == 32
+    assert json.loads((tmp_path / "aisi-4340-nicrmo-plan-austemper-worst-case.json").read_text())["options"]["worst_case_heats"] == 32
 
 
 @pytest.mark.parametrize("args, expected", [

@@ -83,7 +83,7 @@ def plan(
     htc_table: Annotated[Optional[Path], typer.Option("--htc-table", metavar="FILE",
                          help="With a section: CSV of the bath's h against the surface temperature "
                               "(temperature_C,htc_W_m2K).")] = None,
-    xlsx: Annotated[bool, typer.Option("--xlsx", metavar="", help="Also write <stem>-plan.xlsx (plan, summary, curves).")] = False,
+    xlsx: Annotated[bool, typer.Option("--xlsx", metavar="", help="Also write the plan as a spreadsheet (.xlsx).")] = False,
     worst_case: Annotated[bool, typer.Option("--worst-case", metavar="", help="Plan on every heat of the composition "
                                              "range (the file's composition_range table, or --range), not the "
                                              "nominal.")] = False,
@@ -97,8 +97,8 @@ def plan(
 ):
     """Plan a hold: the window of temperatures for a route, the hold time, and a recommendation.
 
-    Writes <stem>-plan.json, <stem>-plan.csv and <stem>-plan.png (the diagram with the window
-    shaded), and with --xlsx a spreadsheet. No window is an answer too: it says what would
+    Writes <stem>-plan-<route>.json, .csv and .png (the diagram with the window shaded;
+    -worst-case added to the names of a worst-case plan), and with --xlsx a spreadsheet. No window is an answer too: it says what would
     have to change.
     """
 
@@ -151,11 +151,12 @@ def plan(
 
             return ttt_figure(curves, footer_extra=" ".join(result.cautions[:1]), units=units.value, plan=result)
 
-        files = {out / f"{stem}-plan.json": lambda p: write_json(plan_summary(result), p),
-                 out / f"{stem}-plan.csv": lambda p: write_plan_csv(result, p),
-                 out / f"{stem}-plan.{fmt.value}": Drawing(draw)}
+        name = _plan_name(stem, route, worst_case)
+        files = {out / f"{name}.json": lambda p: write_json(plan_summary(result), p),
+                 out / f"{name}.csv": lambda p: write_plan_csv(result, p),
+                 out / f"{name}.{fmt.value}": Drawing(draw)}
         if xlsx:
-            files[out / f"{stem}-plan.xlsx"] = lambda p: write_plan_xlsx(result, curves, p)
+            files[out / f"{name}.xlsx"] = lambda p: write_plan_xlsx(result, curves, p)
         return Outcome(lambda: _print_plan(result, units), result.warnings, files, result.cautions)
 
     def _quench_and_temper(alloy, stem, target, options):
@@ -193,7 +194,7 @@ def plan(
                 marks=None if rec is None else ("recommended", [(rec["temperature_C"], rec["hardness_HV"])]),
                 embrittlement_C=EMBRITTLEMENT_RANGE_C, footer=" ".join(result.cautions[:1]))
 
-        name = f"{stem}-plan"
+        name = _plan_name(stem, Route.quench_and_temper, False)
         files = {out / f"{name}.json": lambda p: write_json(plan_summary(result), p),
                  out / f"{name}.csv": lambda p: write_plan_csv(result, p),
                  out / f"{name}.{fmt.value}": Drawing(draw)}
@@ -202,6 +203,11 @@ def plan(
         return Outcome(lambda: _print_plan(result, units), result.warnings, files, result.cautions)
 
     run(lambda: load(alloy_file, inline), solve, overwrite=overwrite, keys=_PLAN_KEYS)
+
+
+def _plan_name(stem: str, route: Route, worst_case: bool) -> str:
+    """The plan's file names carry the route (and a worst case), so that two plans never collide."""
+    return f"{stem}-plan-{route.value}" + ("-worst-case" if worst_case else "")
 
 
 def _duration_option(text: Optional[str], option: str) -> Optional[float]:
@@ -241,8 +247,11 @@ def _print_plan(result, units):
     extra = [c for c in _PLAN_COLUMNS if c in rows]
     typer.echo(f"  {at:>10}  {'ok':>3}  {time:>10}  " + "  ".join(f"{_PLAN_COLUMNS[c][0]:>12}" for c in extra)
                + "  governed by")
-    feasible = [k for k, ok in enumerate(rows["feasible"]) if ok] or list(range(len(rows["feasible"])))
-    for k in feasible[:: max(1, len(feasible) // 12)]:
+    every = list(range(len(rows["feasible"])))
+    # an interrupted quench shows every bath tried, with why a failing one fails; the other
+    # routes a dozen rows of their window
+    feasible = every if result.route == "interrupted-quench" else [k for k in every if rows["feasible"][k]] or every
+    for k in feasible[:: 1 if result.route == "interrupted-quench" else max(1, len(feasible) // 12)]:
         cells = [f"{_cell(float(rows[c][k]), _PLAN_COLUMNS[c][1]):>12}" for c in extra]
         hold_s = float(rows["hold_time_s"][k])
         typer.echo(f"  {in_units(float(rows['temperature_C'][k]), units):>10}  {'yes' if rows['feasible'][k] else 'no':>3}"

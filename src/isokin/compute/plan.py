@@ -419,7 +419,11 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
         ok = np.isfinite(safe) & (safe > 0) & (formed < SOFT_LIMIT)
         extra.update(equalize_s=arrived.arrival_s, start_used_on_arrival=arrived.start_used,
                      formed_on_arrival=formed)
-        governing = np.full(T.shape, "start (1 %) / safety from the centre's arrival, less what the quench used")
+        governing = np.where(
+            formed >= SOFT_LIMIT, [f"{x * 100:.1f} % transformed before the centre arrives" for x in formed],
+            np.where(ok, "start (1 %) / safety from the centre's arrival, less what the quench used",
+                     [f"equalizing ({_duration(a)}) uses up the safe time ({_duration(s / safety)})"
+                      for a, s in zip(arrived.arrival_s, start)]))
         late = int(np.count_nonzero(~ok & np.isfinite(start)))
         if 0 < late < T.size:
             warnings.append(f"at {late} of {T.size} bath temperatures the section's surface (or centre) would start "
