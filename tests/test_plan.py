@@ -149,3 +149,17 @@ def test_plan_routes_on_the_shipped_steels(tmp_path):
             code, out, err, _ = run_main("plan", path, "--route", route, "--out", tmp_path, "--overwrite")
             assert code == 0, (path.name, route, err)
             assert "window" in out or "no " in out
+
+
+def test_anneal_goal_soft_holds_hottest_and_shortest_holds_fastest():
+    # isothermal annealing for a soft structure holds just below Ae1 (common practice): the soft
+    # goal takes the hottest hold that transforms all the austenite in the budget, the other the
+    # fastest; both lie in the same window
+    soft = plan.anneal(AISI_4140)
+    fast = plan.anneal(AISI_4140, goal="shortest")
+    assert soft.window_C == fast.window_C
+    assert soft.recommendation["temperature_C"] > fast.recommendation["temperature_C"]
+    assert soft.recommendation["hold_time_s"] >= fast.recommendation["hold_time_s"]
+    assert soft.recommendation["temperature_C"] < float(AISI_4140.critical_K["Ae1"]) - 273.15
+    with pytest.raises(isokin.InputError, match="goal"):
+        plan.anneal(AISI_4140, goal="fast")

@@ -30,7 +30,8 @@ _PLAN_KEYS = {"max_hold_s": "--max-hold", "margin_K": "--margin-k", "safety": "-
               "route": "--route", "temper_s": "--temper-time", "quench_rate_K_s": "--quench-rate",
               "target_hv": "--target-hv", "curve": "--curve", "worst_case": "--worst-case",
               "size_m": ("--size-mm", "mm", 1000.0), "thickness_m": ("--thickness-mm", "mm", 1000.0),
-              "severity_per_in": "--severity", "htc_table": "--htc-table", "start_C": "--austenitizing-c"}
+              "severity_per_in": "--severity", "htc_table": "--htc-table", "start_C": "--austenitizing-c",
+              "goal": "--goal"}
 
 #: The section's library keys as options.
 _SECTION_OPTIONS = {"shape": "--shape", "size_m": "--size-mm", "thickness_m": "--thickness-mm",
@@ -47,6 +48,9 @@ def plan(
                         help="Austemper: the longest hold the line allows (default 4h).")] = None,
     budget: Annotated[Optional[str], typer.Option("--budget", metavar="DURATION",
                       help="Anneal: the time budget of the hold (default 8h).")] = None,
+    goal: Annotated[Optional[str], typer.Option("--goal", metavar="soft|shortest",
+                    help="Anneal: recommend the softest structure (the hottest hold that transforms all the "
+                         "austenite in the budget; the default) or the shortest cycle.")] = None,
     margin_k: Annotated[Optional[float], typer.Option("--margin-k", parser=decimal_number, metavar="NUMBER",
                         help="Keep hold temperatures this far above Ms, 0 to 500 K (austemper 20, interrupted quench "
                              "10).")] = None,
@@ -142,7 +146,7 @@ def plan(
             result = planning.interrupted_quench(alloy, **options, **section)
         else:
             limit = _duration_option(budget, "--budget")
-            options.update({"budget_s": limit} if limit is not None else {})
+            options.update({k: v for k, v in (("budget_s", limit), ("goal", goal)) if v is not None})
             result = planning.anneal(alloy, **options)
         curves = ttt(alloy)
 

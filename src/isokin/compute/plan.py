@@ -13,7 +13,7 @@ from __future__ import annotations
 import numpy as np
 
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
-from ..errors import InputError, number, numbers
+from ..errors import InputError, choice, number, numbers
 from ..products.alloy import check_alloy
 from ..readout import format_duration
 from ..relations.hardness import hardness_of_mixture
@@ -440,12 +440,20 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
                     **_worst_note(worst_case)}, warnings)
 
 
-def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
+#: What an isothermal anneal aims at: the softest, coarsest structure (the hottest hold that
+#: completes within the budget, as practice anneals just below Ae1) or the shortest cycle.
+ANNEAL_GOALS = ("soft", "shortest")
+
+
+def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None, goal="soft"):
     """Isothermal annealing: hold temperatures where the transformation completes (99 % of what
-    can transform, x safety) within the budget without bainite (under 1 % after the hold);
-    the fastest of them is recommended."""
+    can transform, x safety) within the budget without bainite (under 1 % after the hold).
+    The recommendation follows the goal: ``"soft"`` (the default) the hottest of them, whose
+    pearlite is the coarsest and softest (common practice: isothermal annealing holds just
+    below Ae1), ``"shortest"`` the fastest."""
     if check_alloy(alloy).batch_shape:
         raise InputError(None, "alloy", "a plan takes one alloy, not a batch")
+    choice("goal", goal, ANNEAL_GOALS)
     worst_case = _heats(alloy, worst_case)
     safety = DEFAULT_SAFETY["anneal"] if safety is None else safety
     _checked(worst_case, safety, limit_s=budget_s, limit_key="budget_s")
@@ -479,14 +487,19 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None):
         extra.update({f"after_{k}": v for k, v in _microstructure(alloy, kelvin_to_celsius(T), finite)[0].items()})
     rows = _rows(alloy, T, hold_s, ok, np.full(T.shape, "completion x safety vs the budget"), extra)
     edges = _edges(margin, T, ok) if 0 < ok.sum() < ok.size else []
-    choice, reason = _choose(rows, ok, None, "fastest complete transformation")
+    whole = ok & (transformable >= 0.99)  # below Ae1: all of the austenite transforms in the hold
+    if goal == "soft" and whole.any():
+        chosen = int(np.nonzero(whole)[0][-1])
+        reason = "hottest hold where all the austenite transforms within the budget (the softest, coarsest structure)"
+    else:
+        chosen, reason = _choose(rows, ok, None, "fastest complete transformation")
     nearest = None
     if not ok.any():
         fastest = float(np.nanmin(hold_s)) if np.isfinite(hold_s).any() else None
         nearest = (f"no temperature completes within the budget: the fastest needs {_duration(fastest)} "
                    f"(x {safety:g})" if fastest else "no temperature completes the transformation")
-    return _result("anneal", alloy, rows, ok, edges, choice, reason, nearest,
-                   {"budget_s": budget_s, "safety": safety, **_worst_note(worst_case)})
+    return _result("anneal", alloy, rows, ok, edges, chosen, reason, nearest,
+                   {"budget_s": budget_s, "safety": safety, "goal": goal, **_worst_note(worst_case)})
 
 
 def _heats(alloy, worst_case):
