@@ -120,5 +120,5 @@ def test_sheet_help_reads_plainly(monkeypatch):
     code, out, _, _ = run_main("sheet", "--help")
     words = " ".join(out.replace("│", " ").split())  # the help's boxes and wrapping taken out
     assert code == 0 and "PDF page for the heat-treat file" in words
-    assert "(the file's [composition_range] or --range)" in words
+    assert "(the file's composition_range table, or --range)" in words
     assert "<austemper|interrupted-quench|anneal|quench-and-temper>" in words

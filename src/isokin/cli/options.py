@@ -179,3 +179,37 @@ SamplesOpt = Annotated[Optional[int], typer.Option("--samples", parser=whole_num
                             "2,000), plan --worst-case 2 to 256 (default 64).")]
 SeedOpt = Annotated[Optional[int], typer.Option("--seed", parser=whole_number, metavar="N",
                     help="Seed of the sampling (default 0): the same seed gives the same heats.")]
+
+
+# --- The options of a heat-treatment route, shared by ``plan`` and ``sheet`` ---------------------
+MaxHoldOpt = Annotated[Optional[str], typer.Option("--max-hold", metavar="DURATION",
+                       help="Austemper: the longest hold the line allows (default 4h).")]
+BudgetOpt = Annotated[Optional[str], typer.Option("--budget", metavar="DURATION",
+                      help="Anneal: the time budget of the hold (default 8h).")]
+GoalOpt = Annotated[Optional[str], typer.Option("--goal", metavar="soft|shortest",
+                    help="Anneal: recommend the softest structure (the hottest hold that transforms all the "
+                         "austenite in the budget; the default) or the shortest cycle.")]
+MarginOpt = Annotated[Optional[float], typer.Option("--margin-k", parser=decimal_number, metavar="NUMBER",
+                      help="Austemper, interrupted quench: keep hold temperatures this far above Ms, 0 to 500 K "
+                           "(default 20 and 10).")]
+SafetyOpt = Annotated[Optional[float], typer.Option("--safety", parser=decimal_number, metavar="NUMBER",
+                      help="Hold routes: safety factor on the model's times, 1 to 100 (austemper 1.5, interrupted "
+                           "quench 2, anneal 1.5).")]
+TargetHvOpt = Annotated[Optional[str], typer.Option("--target-hv", metavar="HV[:HV]",
+                        help="Austemper: recommend the temperature closest to this hardness, HV. Quench and temper: "
+                             "the hardness after tempering, a value or a range such as 300:340.")]
+TargetHrcOpt = Annotated[Optional[str], typer.Option("--target-hrc", metavar="HRC[:HRC]",
+                         help="As --target-hv, in Rockwell C (e.g. 30:34).")]
+CurveOpt = Annotated[Optional[Path], typer.Option("--curve", metavar="FILE", show_default=False,
+                     help="Quench and temper: the grade's measured tempering curve (CSV, as for isokin temper).")]
+TemperTimeOpt = Annotated[Optional[str], typer.Option("--temper-time", metavar="DURATION",
+                          help="Quench and temper: the tempering time (default 2h).")]
+QuenchRateOpt = Annotated[Optional[float], typer.Option("--quench-rate", parser=decimal_number, metavar="K_PER_S",
+                          help="Quench and temper: the quench as a constant rate, K/s, to check it hardens the part "
+                               "(without it the part is taken as fully hardened).")]
+AllowEmbrittlementOpt = Annotated[bool, typer.Option("--allow-embrittlement", metavar="",
+                                  help="Quench and temper: let tempers in the embrittlement range (250-400 °C) "
+                                       "count.")]
+WorstCaseOpt = Annotated[bool, typer.Option("--worst-case", metavar="",
+                         help="Hold routes: plan on every sampled heat of the composition range (the file's "
+                              "composition_range table, or --range), not the nominal.")]

@@ -11,7 +11,9 @@ import typer
 
 from ..errors import InputError
 from ..readout import format_duration
-from .options import (AlloyArg, FigureFormat, FormatOpt, Inline, OutOpt, OverwriteOpt, RangeOpt, SamplesOpt, SeedOpt,
+from .options import (AllowEmbrittlementOpt, AlloyArg, BudgetOpt, CurveOpt, FigureFormat, FormatOpt, GoalOpt, Inline,
+                      MarginOpt, MaxHoldOpt, OutOpt, OverwriteOpt, QuenchRateOpt, RangeOpt, SafetyOpt, SamplesOpt,
+                      SeedOpt, TargetHrcOpt, TargetHvOpt, TemperTimeOpt, WorstCaseOpt,
                       Units, UnitsOpt, decimal_number, duration, hardness_target, in_units, steel_options)
 from .runner import Drawing, Outcome, load, run
 from .spread import heats
@@ -44,33 +46,17 @@ def plan(
     inline: Inline = None,
     route: Annotated[Optional[Route], typer.Option("--route", help="austemper, interrupted-quench, anneal or "
                                                    "quench-and-temper.")] = None,
-    max_hold: Annotated[Optional[str], typer.Option("--max-hold", metavar="DURATION",
-                        help="Austemper: the longest hold the line allows (default 4h).")] = None,
-    budget: Annotated[Optional[str], typer.Option("--budget", metavar="DURATION",
-                      help="Anneal: the time budget of the hold (default 8h).")] = None,
-    goal: Annotated[Optional[str], typer.Option("--goal", metavar="soft|shortest",
-                    help="Anneal: recommend the softest structure (the hottest hold that transforms all the "
-                         "austenite in the budget; the default) or the shortest cycle.")] = None,
-    margin_k: Annotated[Optional[float], typer.Option("--margin-k", parser=decimal_number, metavar="NUMBER",
-                        help="Keep hold temperatures this far above Ms, 0 to 500 K (austemper 20, interrupted quench "
-                             "10).")] = None,
-    safety: Annotated[Optional[float], typer.Option("--safety", parser=decimal_number, metavar="NUMBER",
-                      help="Safety factor on the model's times, 1 to 100 (austemper 1.5, interrupted quench 2, "
-                           "anneal 1.5).")] = None,
-    target_hv: Annotated[Optional[str], typer.Option("--target-hv", metavar="HV[:HV]",
-                         help="Austemper: recommend the temperature closest to this hardness, HV. Quench and temper: "
-                              "the hardness after tempering, a value or a range such as 300:340.")] = None,
-    target_hrc: Annotated[Optional[str], typer.Option("--target-hrc", metavar="HRC[:HRC]",
-                          help="As --target-hv, in Rockwell C (e.g. 30:34).")] = None,
-    curve: Annotated[Optional[Path], typer.Option("--curve", metavar="FILE", show_default=False,
-                     help="Quench and temper: the grade's measured tempering curve (CSV, as for isokin temper).")] = None,
-    temper_time: Annotated[Optional[str], typer.Option("--temper-time", metavar="DURATION",
-                           help="Quench and temper: the tempering time (default 2h).")] = None,
-    quench_rate: Annotated[Optional[float], typer.Option("--quench-rate", parser=decimal_number, metavar="K_PER_S",
-                           help="Quench and temper: the quench as a constant rate, K/s, to check it hardens the "
-                                "part (without it the part is taken as fully hardened).")] = None,
-    allow_embrittlement: Annotated[bool, typer.Option("--allow-embrittlement", metavar="", help="Quench and temper: let tempers "
-                                   "in the embrittlement range (250-400 °C) count.")] = False,
+    max_hold: MaxHoldOpt = None,
+    budget: BudgetOpt = None,
+    goal: GoalOpt = None,
+    margin_k: MarginOpt = None,
+    safety: SafetyOpt = None,
+    target_hv: TargetHvOpt = None,
+    target_hrc: TargetHrcOpt = None,
+    curve: CurveOpt = None,
+    temper_time: TemperTimeOpt = None,
+    quench_rate: QuenchRateOpt = None,
+    allow_embrittlement: AllowEmbrittlementOpt = False,
     shape: Annotated[Optional[str], typer.Option("--shape", metavar="plate|bar|sphere", help="Austemper, interrupted "
                      "quench: the section is a "
                      "plate (thickness), bar (diameter; the default) or sphere (diameter).")] = None,
@@ -88,9 +74,7 @@ def plan(
                          help="With a section: CSV of the bath's h against the surface temperature "
                               "(temperature_C,htc_W_m2K).")] = None,
     xlsx: Annotated[bool, typer.Option("--xlsx", metavar="", help="Also write the plan as a spreadsheet (.xlsx).")] = False,
-    worst_case: Annotated[bool, typer.Option("--worst-case", metavar="", help="Plan on every heat of the composition "
-                                             "range (the file's composition_range table, or --range), not the "
-                                             "nominal.")] = False,
+    worst_case: WorstCaseOpt = False,
     range_text: RangeOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,

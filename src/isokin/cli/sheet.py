@@ -8,8 +8,10 @@ from typing import Annotated, Optional
 
 import typer
 
-from .options import (AlloyArg, Inline, OutOpt, OverwriteOpt, RangeOpt, SamplesOpt, SeedOpt, Units, UnitsOpt,
-                      decimal_number, hardness_target, steel_options)
+from .options import (AllowEmbrittlementOpt, AlloyArg, BudgetOpt, CurveOpt, GoalOpt, Inline, MarginOpt, MaxHoldOpt,
+                      OutOpt, OverwriteOpt, QuenchRateOpt, RangeOpt, SafetyOpt, SamplesOpt, SeedOpt, TargetHrcOpt,
+                      TargetHvOpt, TemperTimeOpt, Units, UnitsOpt, WorstCaseOpt, decimal_number, hardness_target,
+                      steel_options)
 from .plan import Route, _duration_option
 from .runner import Drawing, Outcome, load, run
 from .spread import heats
@@ -19,7 +21,7 @@ from .status import status
 _SHEET_KEYS = {"max_hold_s": "--max-hold", "margin_K": "--margin-k", "safety": "--safety", "budget_s": "--budget",
                "route": "--route", "temper_s": "--temper-time", "quench_rate_K_s": "--quench-rate",
                "target_hv": "--target-hv", "curve": "--curve", "worst_case": "--worst-case",
-               "avoid_embrittlement": "--allow-embrittlement"}
+               "avoid_embrittlement": "--allow-embrittlement", "goal": "--goal"}
 
 
 @steel_options
@@ -28,35 +30,22 @@ def sheet(
     inline: Inline = None,
     route: Annotated[Optional[Route], typer.Option("--route", help="The plan on the sheet (leave out for the diagram "
                                                    "alone).", show_default=False)] = None,
-    max_hold: Annotated[Optional[str], typer.Option("--max-hold", metavar="DURATION",
-                        help="Austemper: the longest hold the line allows (default 4h).")] = None,
-    budget: Annotated[Optional[str], typer.Option("--budget", metavar="DURATION",
-                      help="Anneal: the time budget of the hold (default 8h).")] = None,
-    margin_k: Annotated[Optional[float], typer.Option("--margin-k", parser=decimal_number, metavar="NUMBER",
-                        help="Austemper and interrupted quench: keep hold temperatures this far above Ms, 0 to 500 K "
-                             "(default 20 and 10).")] = None,
-    safety: Annotated[Optional[float], typer.Option("--safety", parser=decimal_number, metavar="NUMBER",
-                      help="Hold routes: safety factor on the model's times, 1 to 100 (austemper 1.5, interrupted "
-                           "quench 2, anneal 1.5).")] = None,
-    target_hv: Annotated[Optional[str], typer.Option("--target-hv", metavar="HV[:HV]",
-                         help="Austemper: the hardness to aim at, HV. Quench and temper: the hardness after "
-                              "tempering, a value or a range such as 300:340.")] = None,
-    target_hrc: Annotated[Optional[str], typer.Option("--target-hrc", metavar="HRC[:HRC]",
-                          help="As --target-hv, in Rockwell C (e.g. 30:34).")] = None,
-    curve: Annotated[Optional[Path], typer.Option("--curve", metavar="FILE", show_default=False,
-                     help="Quench and temper: the grade's measured tempering curve (CSV).")] = None,
-    temper_time: Annotated[Optional[str], typer.Option("--temper-time", metavar="DURATION",
-                           help="Quench and temper: the tempering time (default 2h).")] = None,
-    quench_rate: Annotated[Optional[float], typer.Option("--quench-rate", parser=decimal_number, metavar="K_PER_S",
-                           help="Quench and temper: the quench as a constant rate, K/s, to check it hardens the part.")] = None,
-    allow_embrittlement: Annotated[bool, typer.Option("--allow-embrittlement", metavar="", help="Quench and temper: let tempers "
-                                   "in the embrittlement range (250-400 °C) count.")] = False,
+    max_hold: MaxHoldOpt = None,
+    budget: BudgetOpt = None,
+    goal: GoalOpt = None,
+    margin_k: MarginOpt = None,
+    safety: SafetyOpt = None,
+    target_hv: TargetHvOpt = None,
+    target_hrc: TargetHrcOpt = None,
+    curve: CurveOpt = None,
+    temper_time: TemperTimeOpt = None,
+    quench_rate: QuenchRateOpt = None,
+    allow_embrittlement: AllowEmbrittlementOpt = False,
     thickness_mm: Annotated[Optional[float], typer.Option("--thickness-mm", parser=decimal_number, metavar="NUMBER",
                             help="Interrupted quench: section thickness, mm, for the equalizing time.")] = None,
     htc: Annotated[Optional[float], typer.Option("--htc", parser=decimal_number, metavar="W_PER_M2K",
                    help="Interrupted quench: heat-transfer coefficient of the bath, W/(m2 K).")] = None,
-    worst_case: Annotated[bool, typer.Option("--worst-case", metavar="", help="Hold routes: plan on every sampled heat of the "
-                                             "composition range (the file's \\[composition_range] or --range).")] = False,
+    worst_case: WorstCaseOpt = False,
     range_text: RangeOpt = None,
     samples: SamplesOpt = None,
     seed: SeedOpt = None,
@@ -94,6 +83,7 @@ def sheet(
         """The route options given, as the library names them (the library's defaults stand for the rest)."""
         target = hardness_target(target_hv, target_hrc)
         options = {"max_hold_s": _duration_option(max_hold, "--max-hold"), "budget_s": _duration_option(budget, "--budget"),
+                   "goal": goal,
                    "margin_K": margin_k, "safety": safety, "temper_s": _duration_option(temper_time, "--temper-time"),
                    "quench_rate_K_s": quench_rate, "heat_transfer_W_m2K": htc,
                    "thickness_m": None if thickness_mm is None else thickness_mm / 1000.0,
