@@ -34,7 +34,6 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 
 import numpy as np
-from scipy.linalg import solve_banded
 
 from ..constants import celsius_to_kelvin, kelvin_to_celsius
 from ..errors import InputError, choice, numbers, whole_number
@@ -342,6 +341,8 @@ def _implicit_step(grid, T, Tm, k, rc, h, sink, latent, dt):
     banded[0, 1:] = off.ravel()[:-1]
     banded[1] = diag.ravel()
     banded[2, :-1] = off.ravel()[:-1]
+    from scipy.linalg import solve_banded  # here, not at import: loading an alloy file must not pay for scipy
+
     return solve_banded((1, 1), banded, rhs.ravel(), check_finite=False).reshape(B, N)
 
 
