@@ -259,7 +259,38 @@ def _nose_labels(result: TTTResult, units):
         else:
             labels += [(i, T, f"{name} {x * 100:g} % nose\n{T:.0f} °{units}, {format_duration(t)}", [(x, T, t)])
                        for x, T, t in noses]
+        if product == result.overall:
+            second = _second_start_nose(result, units, span)
+            if second is not None:
+                x, T, t = second
+                labels.append((i, T, f"{name} {x * 100:g} % nose\n{T:.0f} °{units}, {format_duration(t)}", [second]))
     return labels
+
+
+#: A second nose of the whole decomposition's start curve stands at least this share of the
+#: temperature span from its first (the upper nose of ferrite and pearlite, the bainite nose).
+SECOND_NOSE_SHARE = 0.05
+
+
+def _second_start_nose(result: TTTResult, units, span):
+    """The other nose of the start curve of all products together, where it has two (a bay
+    between the upper and the bainite C-curves): (fraction, T in the units, t s) at the grid
+    point of the earliest other local minimum of the time, or None."""
+    k = int(np.argmin(result.fractions))
+    t = np.where(result.practical(result.overall)[k], result.times_s[result.overall][k], np.nan)
+    T = to_units(result.temperatures_C, units)
+    nose = result.noses[result.overall]
+    if not (nose.inside[k] and nose.forms[k]):
+        return None
+    first = float(to_units(nose.temperature_C[k], units))
+    inner = np.arange(1, t.size - 1)
+    with np.errstate(invalid="ignore"):
+        minima = inner[(t[inner] <= t[inner - 1]) & (t[inner] <= t[inner + 1])]
+    minima = [i for i in minima if abs(T[i] - first) > SECOND_NOSE_SHARE * span]
+    if not minima:
+        return None
+    i = min(minima, key=lambda j: t[j])
+    return float(result.fractions[k]), float(T[i]), float(t[i])
 
 
 def _spread(positions, gap):
@@ -320,8 +351,10 @@ def plot_plan(plan, result: TTTResult, ax=None, units="C"):
     heats = plan.options.get("worst_case_heats")
     kind = plan.route + (f", worst case over {heats} heats" if heats else "")
     if plan.window_C is None and plan.no_window:
-        note = "\n".join(textwrap.wrap(f"No window: {plan.no_window}", 70))
-        movable(ax.text(0.5, 0.5, literal(note), transform=ax.transAxes, ha="center", va="center", fontsize=8.5,
+        note = "\n".join(textwrap.wrap(f"No window: {plan.no_window}", 56))
+        # lower right, below the curves' finish and right of the martensite label, is where a
+        # diagram is emptiest
+        movable(ax.text(0.98, 0.3, literal(note), transform=ax.transAxes, ha="right", va="center", fontsize=8,
                         color="#8a1c1c", zorder=9, bbox={"boxstyle": "round,pad=0.4", "facecolor": "white",
                                                          "edgecolor": "#8a1c1c", "alpha": 0.92}))
     ax.set_title(f"Plan ({kind}): {literal(result.alloy)}", fontsize=11, loc="left")
