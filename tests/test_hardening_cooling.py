@@ -397,3 +397,11 @@ def test_a_long_path_is_drawn_with_its_extremes():
     assert y.max() == 1300.0 and y.min() == 20.0 and x[-1] == t[-1]
     short_t, short_T = np.linspace(0.0, 10.0, 50), np.linspace(900.0, 20.0, 50)
     assert _drawn(short_t, short_T)[1].size == 50
+
+
+def test_cool_and_cct_refuse_what_is_not_an_alloy():
+    # the API's own error, one line, as ttt and hold give it
+    with pytest.raises(isokin.InputError, match="alloy"):
+        isokin.cool("not an alloy", isokin.constant_rate(10.0, 845.0))
+    with pytest.raises(isokin.InputError, match="alloy"):
+        isokin.cct("not an alloy")

@@ -23,6 +23,7 @@ import numpy as np
 
 from ..constants import MAX_TEMPERATURE_C, ZERO_CELSIUS_K, celsius_to_kelvin, kelvin_to_celsius
 from ..errors import Bounds, InputError, real_number
+from ..products.alloy import check_alloy
 from ..relations.hardness import hardness_of_mixture
 from ..results import OVERALL, CCTResult, CoolingResult
 from .decomposition import WAIT_FRACTION
@@ -529,6 +530,7 @@ def cool(alloy, path):
     >>> float(water.final["martensite"][0]) > 0.9
     True
     """
+    check_alloy(alloy)
     paths = _path_list(path)
     top_C = formation_top_C(alloy)
     if all(float(kelvin_to_celsius(np.min(p.temperature_K))) >= top_C for p in paths):
@@ -573,6 +575,7 @@ def cct(alloy, rates_K_s=None, start_C=None, end_C=20.0):
         product and of the whole decomposition, the final fractions and hardness, and the
         critical cooling rates.
     """
+    check_alloy(alloy)
     start, end = _start_and_end(formation_top_C(alloy) if start_C is None else start_C, end_C)
     rates = np.sort(_rates(DEFAULT_RATES_K_S if rates_K_s is None else rates_K_s))
     result = cool(alloy, [constant_rate(r, start, end) for r in rates])
