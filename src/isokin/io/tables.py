@@ -120,8 +120,8 @@ def read_tempering_curve(path: Path, source=None, key="curve"):
     try:
         return tempering_curve(table[:, 0], hv, times, source=Path(path).name)
     except InputError as exc:
-        raise InputError(source, key, f"tempering curve {path}: {exc.key or ''} {exc.problem}".replace("  ", " ")) \
-            from None
+        where = f"{exc.key} " if exc.key else ""
+        raise InputError(source, key, f"tempering curve {path}: {where}{exc.problem}") from None
 
 
 BAND_COLUMNS = ("hrc_min", "hrc_max")
