@@ -443,11 +443,14 @@ def interrupted_quench(alloy, margin_K=10.0, safety=None, span_K=INTERRUPTED_SPA
 #: What an isothermal anneal aims at: the softest, coarsest structure (the hottest hold that
 #: completes within the budget, as practice anneals just below Ae1) or the shortest cycle.
 ANNEAL_GOALS = ("soft", "shortest")
+#: An anneal's hold transforms at least this share of the part (all of the austenite, to rounding).
+WHOLE_SHARE = 0.99
 
 
 def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None, goal="soft"):
     """Isothermal annealing: hold temperatures where the transformation completes (99 % of what
-    can transform, x safety) within the budget without bainite (under 1 % after the hold).
+    can transform, x safety) within the budget without bainite (under 1 % after the hold), and
+    where all the austenite can transform (below Ae1; an intercritical hold is no anneal).
     The recommendation follows the goal: ``"soft"`` (the default) the hottest of them, whose
     pearlite is the coarsest and softest (common practice: isothermal annealing holds just
     below Ae1), ``"shortest"`` the fastest."""
@@ -470,13 +473,15 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None, goal=
         return _worst(d.time_to_total(0.99) * safety, model), _worst(d.transformable, model, np.min)
 
     def margin(T):
-        hold_s, _ = parts(T)
+        hold_s, transformable = parts(T)
         with np.errstate(divide="ignore", invalid="ignore"):
             m = np.log(budget_s) - np.log(hold_s)
         bainite = (_worst(_times(model, _over(model, T), ["bainite"], 0.01), model, np.min) if "bainite" in by_name
                    else np.full(np.shape(T), np.inf))
         with np.errstate(divide="ignore", invalid="ignore"):
             m = np.minimum(m, np.log(bainite) - np.log(hold_s))
+            # an anneal transforms all of the austenite in the hold: not an intercritical hold above Ae1
+            m = np.minimum(m, np.log(transformable / WHOLE_SHARE))
         return np.nan_to_num(m, nan=-np.inf, posinf=np.inf)
 
     hold_s, transformable = parts(T)
@@ -487,9 +492,8 @@ def anneal(alloy, budget_s=DEFAULT_BUDGET_S, safety=None, worst_case=None, goal=
         extra.update({f"after_{k}": v for k, v in _microstructure(alloy, kelvin_to_celsius(T), finite)[0].items()})
     rows = _rows(alloy, T, hold_s, ok, np.full(T.shape, "completion x safety vs the budget"), extra)
     edges = _edges(margin, T, ok) if 0 < ok.sum() < ok.size else []
-    whole = ok & (transformable >= 0.99)  # below Ae1: all of the austenite transforms in the hold
-    if goal == "soft" and whole.any():
-        chosen = int(np.nonzero(whole)[0][-1])
+    if goal == "soft" and ok.any():
+        chosen = int(np.nonzero(ok)[0][-1])
         reason = "hottest hold where all the austenite transforms within the budget (the softest, coarsest structure)"
     else:
         chosen, reason = _choose(rows, ok, None, "fastest complete transformation")
