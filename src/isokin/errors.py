@@ -101,7 +101,10 @@ def numbers(key, value, low=None, high=None, *, low_open=False, high_open=False,
         odd = [v for v in given.flat if isinstance(v, (bool, np.bool_)) or not isinstance(v, (int, float, np.number))]
         if odd:
             raise InputError(source, key, f"must be {wanted}, got {_shown(odd[0])}")
-        given = given.astype(float)
+        try:
+            given = given.astype(float)
+        except OverflowError:  # an int beyond any float
+            raise InputError(source, key, f"must be {wanted}, got {_shown(value)}") from None
     if given.dtype.kind not in "iuf":
         raise InputError(source, key, f"must be {wanted}, got {_shown(value)}")
     array = given.astype(float)
@@ -208,9 +211,11 @@ class Bounds:
         return ~inside
 
     def check(self, key, value) -> float:
-        """``value`` as a float inside the range; InputError naming ``key`` otherwise."""
-        number = real_number(value)
-        if number is None or bool(self.outside(number)):
-            raise InputError(None, key, f"{self.rule}, got {value!r:.40}" if number is None else
-                             f"{self.rule}, got {number!r}{' ' if self.unit else ''}{self.unit}")
-        return number
+        """``value`` as a float inside the range, through the shared :func:`number` check;
+        InputError naming ``key`` with this kind's own rule otherwise."""
+        try:
+            return number(key, value, self.low, self.high, low_open=self.low_open, unit=self.unit)
+        except InputError:
+            given = real_number(value)
+            raise InputError(None, key, f"{self.rule}, got {value!r:.40}" if given is None else
+                             f"{self.rule}, got {given!r}{' ' if self.unit else ''}{self.unit}") from None
