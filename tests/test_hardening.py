@@ -367,11 +367,13 @@ def test_size_limits_are_one_line_errors_and_the_largest_run_is_quick(tmp_path):
     assert code == 2 and "--points" in err
     eight = head + "".join(product.replace('name = "precipitate"', f'name = "p{i}"') for i in range(8))
     (tmp_path / "eight.toml").write_text(eight)
-    start = time.perf_counter()
+    # the run's own processor time: on a shared machine (the suite's other workers, other jobs)
+    # the wall clock measures the neighbours too
+    start = time.process_time()
     code, _, err, _ = run_main("diagram", tmp_path / "eight.toml", "--out", tmp_path / "big", "--points", "5000",
                                *extra[:18])
     assert code == 0, err
-    assert time.perf_counter() - start < 10.0
+    assert time.process_time() - start < 10.0
 
 
 def test_successful_runs_print_only_the_tools_own_lines():

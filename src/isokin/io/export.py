@@ -162,10 +162,7 @@ def summary(result: TTTResult) -> dict:
         "fraction_meaning": dict(result.fraction_meanings),
         "critical_temperatures": lines,
         "products": products,
-        "model_choices": result.provenance,
-        "warnings": list(result.warnings),
-        "inputs": result.inputs,
-        "note": CAUTION_SHORT,
+        **_record(result),
     }
 
 
@@ -195,6 +192,17 @@ def write_figure(fig, target: Path, fmt: str, dpi=150):
         # a crowded figure keeps its default layout; the note would only be noise for the user
         warnings.filterwarnings("ignore", message="constrained_layout not applied")
         fig.savefig(target, dpi=dpi, format=fmt)
+
+
+def _critical_C(critical_K) -> dict:
+    """Critical temperatures for a summary, °C (those that exist)."""
+    return {k: round(float(kelvin_to_celsius(v)), 3) for k, v in critical_K.items() if np.isfinite(v)}
+
+
+def _record(result) -> dict:
+    """The end of every summary: the model choices, the warnings, the inputs and the caution."""
+    return {"model_choices": result.provenance, "warnings": list(result.warnings), "inputs": result.inputs,
+            "note": CAUTION_SHORT}
 
 
 def _finite_or_none(value, digits=6):
@@ -242,10 +250,7 @@ def hold_summary(result) -> dict:
                               "within the practical horizon"),
         "milestone_of": dict(result.milestone_of),
         "practical_horizon_s": PRACTICAL_HORIZON_S,
-        "model_choices": result.provenance,
-        "warnings": list(result.warnings),
-        "inputs": result.inputs,
-        "note": CAUTION_SHORT,
+        **_record(result),
     }
 
 
@@ -282,12 +287,8 @@ def cooling_summary(result) -> dict:
         "fraction_meaning": "share of the part at the end of the path; the phases sum to 1",
         "start_meaning": "where a product first makes up 1 % of the part along the path",
         "hardness_method": _HARDNESS_NOTE,
-        "critical_temperatures_C": {k: round(float(kelvin_to_celsius(v)), 3) for k, v in result.critical_K.items()
-                                    if np.isfinite(v)},
-        "model_choices": result.provenance,
-        "warnings": list(result.warnings),
-        "inputs": result.inputs,
-        "note": CAUTION_SHORT,
+        "critical_temperatures_C": _critical_C(result.critical_K),
+        **_record(result),
     }
 
 
@@ -333,8 +334,7 @@ def plan_summary(result) -> dict:
             k: _plain(v) for k, v in result.recommendation.items()},
         "no_window": result.no_window,
         "candidates": [{c: _plain(np.asarray(result.rows[c])[k]) for c in columns} for k in range(n)],
-        "critical_temperatures_C": {k: round(float(kelvin_to_celsius(v)), 3) for k, v in result.critical_K.items()
-                                    if np.isfinite(v)},
+        "critical_temperatures_C": _critical_C(result.critical_K),
         "cautions": list(result.cautions),
         "warnings": list(result.warnings),
         "model_choices": result.provenance,
@@ -584,12 +584,8 @@ def section_summary(result) -> dict:
         "size_meaning": "thickness of a plate, diameter of a bar or sphere",
         "heat_balance_meaning": "J per unit of r^m area (per m2 of plate face; per radian and m of bar; per steradian)",
         "hardness_method": _HARDNESS_NOTE,
-        "critical_temperatures_C": {k: round(float(kelvin_to_celsius(v)), 3) for k, v in result.critical_K.items()
-                                    if np.isfinite(v)},
-        "model_choices": result.provenance,
-        "warnings": list(result.warnings),
-        "inputs": result.inputs,
-        "note": CAUTION_SHORT,
+        "critical_temperatures_C": _critical_C(result.critical_K),
+        **_record(result),
     }
 
 
@@ -628,8 +624,5 @@ def jominy_summary(result) -> dict:
         "ideal_critical_diameter_mm": round(result.ideal_diameter_in * 25.4, 1),
         "band": band,
         "hardness_method": _HARDNESS_NOTE,
-        "model_choices": result.provenance,
-        "warnings": list(result.warnings),
-        "inputs": result.inputs,
-        "note": CAUTION_SHORT,
+        **_record(result),
     }
